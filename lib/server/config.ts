@@ -1,0 +1,19 @@
+/** Server configuration from the environment, with defaults (README, Configuration). */
+export interface ServerConfig {
+  idleTimeoutMin: number;
+  sessionLifetimeHours: number;
+  secureCookies: boolean;
+}
+
+function num(v: string | undefined, dflt: number): number {
+  const n = v === undefined ? NaN : Number(v);
+  return Number.isFinite(n) && n > 0 ? n : dflt;
+}
+
+export function serverConfig(env: NodeJS.ProcessEnv = process.env): ServerConfig {
+  return {
+    idleTimeoutMin: num(env.PLATEAU_IDLE_TIMEOUT_MIN, 30),
+    sessionLifetimeHours: num(env.PLATEAU_SESSION_HOURS, 12),
+    secureCookies: env.PLATEAU_SECURE_COOKIES === '1',
+  };
+}

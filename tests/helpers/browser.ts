@@ -1,0 +1,30 @@
+/** Debian Chromium driven by playwright-core (never `playwright install`). */
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { chromium, type Browser } from 'playwright-core';
+import { ROOT } from './appServer';
+
+export const CHROMIUM = process.env.PLATEAU_CHROMIUM ?? '/usr/bin/chromium';
+export const ARTIFACTS = path.join(ROOT, 'tests', 'artifacts');
+
+export function chromiumAvailable(): boolean {
+  const present = fs.existsSync(CHROMIUM);
+  if (!present && process.env.PLATEAU_REQUIRE_BROWSER === '1') throw new Error(`Chromium is required but missing at ${CHROMIUM}`);
+  return present;
+}
+
+export async function launchBrowser(): Promise<Browser> {
+  return chromium.launch({
+    executablePath: CHROMIUM,
+    headless: true,
+    args: ['--no-sandbox', '--disable-gpu', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--disable-quic', `--user-data-dir=${fs.mkdtempSync(path.join(os.tmpdir(), 'plateau-chromium-'))}`],
+  });
+}
+
+/** Where a test keeps its screenshots. */
+export function artifactPath(test: string, step: string): string {
+  const dir = path.join(ARTIFACTS, test);
+  fs.mkdirSync(dir, { recursive: true });
+  return path.join(dir, `${step}.png`);
+}
