@@ -9,15 +9,22 @@ export const ACCESS = {
   // pages
   '/': ['nurse', 'lead', 'safety', 'admin'],
   '/cases': ['nurse', 'lead', 'admin'],
+  '/cases/new': ['nurse', 'lead'],
   '/cases/[id]': ['nurse', 'lead', 'admin'],
   '/reports': ['safety', 'lead', 'admin'],
   '/admin': ['admin'],
   // API: reading
   'GET /api/v1/cases': ['nurse', 'lead', 'admin'],
   'GET /api/v1/cases/[id]': ['nurse', 'lead', 'admin'],
+  'GET /api/v1/cases/[id]/sheet': ['nurse', 'lead', 'admin'],
+  'GET /api/v1/patients': ['nurse', 'lead'],
   'GET /api/v1/me': ['nurse', 'lead', 'safety', 'admin'],
   // API: writing case data
+  'POST /api/v1/cases': ['nurse', 'lead'],
   'POST /api/v1/cases/[id]/doses': ['nurse', 'lead'],
+  'POST /api/v1/cases/[id]/imports': ['nurse', 'lead'],
+  'POST /api/v1/cases/[id]/imports/preview': ['nurse', 'lead'],
+  'POST /api/v1/cases/[id]/entries': ['nurse', 'lead'],
   // API: administration
   'GET /api/v1/admin/users': ['admin'],
   'POST /api/v1/admin/users': ['admin'],

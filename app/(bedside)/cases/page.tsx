@@ -29,9 +29,16 @@ export default async function CasesToday() {
     <>
       <TopBar user={user} />
       <main>
-        <h1>
-          Cases today · {unit.name} <span className="muted">{formatDate(t, unit.timeZone)}</span>
-        </h1>
+        <div className="row" style={{ justifyContent: 'space-between' }}>
+          <h1>
+            Cases today · {unit.name} <span className="muted">{formatDate(t, unit.timeZone)}</span>
+          </h1>
+          {(user.role === 'nurse' || user.role === 'lead') && (
+            <Link href="/cases/new" className="button primary" data-testid="new-case">
+              Open a case
+            </Link>
+          )}
+        </div>
         <div className="grid-rooms">
           {rooms.map((room) => {
             const list = cases.filter((c) => c.roomId === room.id);

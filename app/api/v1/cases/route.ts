@@ -1,4 +1,9 @@
 import { z } from 'zod';
+import { NewCaseInput } from '@/lib/domain/newCase';
+import { checkOrigin, HttpError, parseJson } from '@/lib/server/http';
+import { openCase } from '@/lib/db/openCase';
+import { ConflictError, NotFoundError } from '@/lib/db/cases';
+import { requestOrigin } from '@/lib/server/session';
 import { authorizeApi } from '@/lib/server/access';
 import { errorResponse } from '@/lib/server/http';
 import { unitForUser } from '@/lib/server/unit';
@@ -21,6 +26,25 @@ export async function GET(req: Request) {
     const cases = await casesForDay(db(), unit.id, date);
     return Response.json({ date, unit: { id: unit.id, name: unit.name, timeZone: unit.timeZone }, cases });
   } catch (e) {
+    return errorResponse(e);
+  }
+}
+
+/** Opens a case for today in the user's unit (adding the patient when new). */
+export async function POST(req: Request) {
+  const user = await authorizeApi('POST /api/v1/cases');
+  if (user instanceof Response) return user;
+  try {
+    checkOrigin(req);
+    const input = await parseJson(req, NewCaseInput);
+    const unit = await unitForUser(user);
+    if (!unit) throw new HttpError(409, 'unit: no unit is set up yet');
+    const t = now();
+    const c = await openCase(db(), unit.id, input, { id: user.id, role: user.role, origin: await requestOrigin() }, t, localDate(t, unit.timeZone));
+    return Response.json({ id: c.id }, { status: 201 });
+  } catch (e) {
+    if (e instanceof NotFoundError) return errorResponse(new HttpError(404, e.message));
+    if (e instanceof ConflictError) return errorResponse(new HttpError(409, e.message));
     return errorResponse(e);
   }
 }
