@@ -4,7 +4,8 @@ import { ROLE_LABEL } from '@/lib/server/roles';
 
 const LINKS: { href: string; label: string; roles: string[] }[] = [
   { href: '/cases', label: 'Cases today', roles: ['nurse', 'lead', 'admin'] },
-  { href: '/reports', label: 'Reports', roles: ['safety', 'lead', 'admin'] },
+  { href: '/review', label: 'Monthly review', roles: ['lead'] },
+  { href: '/reports', label: 'Safety indicators', roles: ['safety', 'lead', 'admin'] },
   { href: '/admin', label: 'Administration', roles: ['admin'] },
 ];
 

@@ -25,6 +25,8 @@ export const ACCESS = {
   'POST /api/v1/cases/[id]/imports': ['nurse', 'lead'],
   'POST /api/v1/cases/[id]/imports/preview': ['nurse', 'lead'],
   'POST /api/v1/cases/[id]/entries': ['nurse', 'lead'],
+  // review (monthly review for the lead) — entries added by the review work go here
+  // reports (safety indicators) — entries added by the indicator work go here
   // API: administration
   'GET /api/v1/admin/users': ['admin'],
   'POST /api/v1/admin/users': ['admin'],
