@@ -1,6 +1,5 @@
 /** Debian Chromium driven by playwright-core (never `playwright install`). */
 import fs from 'node:fs';
-import os from 'node:os';
 import path from 'node:path';
 import { chromium, type Browser } from 'playwright-core';
 import { ROOT } from './appServer';
@@ -18,7 +17,7 @@ export async function launchBrowser(): Promise<Browser> {
   return chromium.launch({
     executablePath: CHROMIUM,
     headless: true,
-    args: ['--no-sandbox', '--disable-gpu', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--disable-quic', `--user-data-dir=${fs.mkdtempSync(path.join(os.tmpdir(), 'plateau-chromium-'))}`],
+    args: ['--no-sandbox', '--disable-gpu', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--disable-quic'],
   });
 }
 
