@@ -29,7 +29,8 @@ describe.skipIf(!haveBrowser)('a demo nurse in Chromium', () => {
     await page.getByLabel('Username').fill(nurse.username);
     await page.getByLabel('Password').fill('not-the-password');
     await page.getByRole('button', { name: 'Sign in' }).click();
-    await expect(page.getByRole('alert').textContent()).resolves.toMatch(/not right/);
+    await page.locator('#signin-error').waitFor();
+    expect(await page.locator('#signin-error').textContent()).toMatch(/not right/);
 
     await page.getByLabel('Password').fill(nurse.password);
     await page.getByRole('button', { name: 'Sign in' }).click();
