@@ -3,7 +3,7 @@ const nextConfig = {
   reactStrictMode: true,
   poweredByHeader: false,
   // Native and wasm packages stay outside the server bundle and load from node_modules.
-  serverExternalPackages: ['better-sqlite3', '@prisma/adapter-better-sqlite3', '@node-rs/argon2'],
+  serverExternalPackages: ['better-sqlite3', '@prisma/adapter-better-sqlite3', '@node-rs/argon2', 'pdfkit'],
   experimental: { authInterrupts: true },
   typescript: { ignoreBuildErrors: false },
   async headers() {

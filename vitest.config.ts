@@ -1,7 +1,8 @@
 import { defineConfig } from 'vitest/config';
 import path from 'node:path';
+import { fileURLToPath } from 'node:url';
 
-const alias = { '@': path.resolve(__dirname) };
+const alias = { '@': path.dirname(fileURLToPath(import.meta.url)) };
 
 export default defineConfig({
   resolve: { alias },

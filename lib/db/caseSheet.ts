@@ -22,6 +22,7 @@ export interface CaseSheetData {
     etco2Unit: 'mmHg' | 'kPa';
     procedureType: string;
     plannedDepth: string;
+    reachedDepth: string | null;
     asaClass: string | null;
     asaEmergency: boolean;
     weightKg: number | null;
@@ -110,6 +111,7 @@ export async function loadCaseSheet(client: PrismaClient, caseId: string, afterS
       etco2Unit: c.etco2Unit === 'kPa' ? 'kPa' : 'mmHg',
       procedureType: c.procedureType,
       plannedDepth: c.plannedDepth,
+      reachedDepth: c.reachedDepth,
       asaClass: c.asaClass,
       asaEmergency: c.asaEmergency,
       weightKg: c.weightKg,

@@ -174,3 +174,27 @@ async function copyWithNewTime(tx: Tx, target: string, row: TargetRow, newId: st
     await tx.manualVital.create({ data: { ...base, sbp: r.sbp, dbp: r.dbp, hr: r.hr, spo2: r.spo2, rr: r.rr, etco2: r.etco2, sedationScore: r.sedationScore } });
   }
 }
+
+/**
+ * Applies edits to case facts with per-field optimistic concurrency: a field whose stored value
+ * no longer equals what the editor saw is refused by name, and nothing is written.
+ */
+export async function editCaseFacts(client: PrismaClient, caseId: string, changes: { field: string; from: unknown; to: unknown }[], actor: Actor, now: Date) {
+  return client.$transaction(async (tx) => {
+    const c = await tx.case.findUnique({ where: { id: caseId } });
+    if (!c) throw new NotFoundError(`case ${caseId} not found`);
+    if (c.status === 'signed') throw new ConflictError('case: the note is signed; amend the note instead');
+    const current = c as unknown as Record<string, unknown>;
+    const stale = changes.filter((ch) => (current[ch.field] ?? null) !== (ch.from ?? null));
+    if (stale.length) {
+      const who = c.updatedAt.toISOString();
+      throw new ConflictError(
+        stale.map((s) => `changes.${s.field}: changed by someone else since you opened it (now ${JSON.stringify(current[s.field] ?? null)}, updated ${who}); reload and check before editing`).join('; '),
+      );
+    }
+    const data = Object.fromEntries(changes.map((ch) => [ch.field, ch.to]));
+    const updated = await tx.case.update({ where: { id: caseId }, data: { ...data, version: { increment: 1 } } });
+    await appendAudit(tx, { at: now, actorId: actor.id, role: actor.role, action: 'update', entity: 'case', entityId: caseId, caseId, before: Object.fromEntries(changes.map((ch) => [ch.field, current[ch.field] ?? null])), after: data, origin: actor.origin });
+    return { version: updated.version };
+  });
+}

@@ -141,6 +141,28 @@ describe('the bedside record', () => {
     expect(seenByA.interventions[0].by).not.toBe(seenByA.doses[0].by);
   });
 
+  it('refuses an edit of a field someone else changed meanwhile, by name, and keeps their value', async () => {
+    const a = await nurse(0);
+    const b = await nurse(1);
+    const id = await newCase(a);
+    const first = await a.req('PATCH', `/api/v1/cases/${id}`, { changes: { weightKg: { from: 80, to: 82 } } });
+    expect(first.status, first.text).toBe(200);
+    // b still saw 80 kg: their edit of the weight is refused, naming the field; nothing is written.
+    const stale = await b.req('PATCH', `/api/v1/cases/${id}`, { changes: { weightKg: { from: 80, to: 79 }, allergies: { from: null, to: 'latex' } } });
+    expect(stale.status).toBe(409);
+    expect(stale.json.error).toMatch(/changes\.weightKg: changed by someone else/);
+    const row = q<{ weightKg: number; allergies: string | null }>('SELECT weightKg, allergies FROM "Case" WHERE id = ?', id);
+    expect(row).toEqual({ weightKg: 82, allergies: null });
+    // A different field is not a conflict.
+    const other = await b.req('PATCH', `/api/v1/cases/${id}`, { changes: { allergies: { from: null, to: 'latex' } } });
+    expect(other.status).toBe(200);
+    const bad = await b.req('PATCH', `/api/v1/cases/${id}`, { changes: { weightKg: { from: 82, to: -1 } } });
+    expect(bad.status).toBe(422);
+    expect(bad.json.error).toMatch(/changes\.weightKg: must be at least 1 kg/);
+    const forbidden = await b.req('PATCH', `/api/v1/cases/${id}`, { changes: { status: { from: 'draft', to: 'signed' } } });
+    expect(forbidden.status).toBe(422);
+  });
+
   it('refuses malformed entries with the field named, and writes nothing', async () => {
     const c = await nurse();
     const id = await newCase(c);

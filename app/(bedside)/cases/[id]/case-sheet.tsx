@@ -14,6 +14,7 @@ import { MarkerPanel, MARKERS } from './marker-panel';
 import { RecoveryPanel } from './recovery-panel';
 import { HistoryPanel } from './history-panel';
 import { ImportPanel } from './import-panel';
+import { FactsPanel } from './facts-panel';
 import { clock, mergeWaiting, pendingVoids, secs, type ViewEntry } from './shared';
 
 const TABS = [
@@ -24,6 +25,7 @@ const TABS = [
   { id: 'recovery', label: 'Recovery', key: 'r' },
   { id: 'history', label: 'History', key: 'h' },
   { id: 'import', label: 'Import', key: 'u' },
+  { id: 'facts', label: 'Facts', key: 'f' },
 ] as const;
 type Tab = (typeof TABS)[number]['id'];
 
@@ -35,7 +37,7 @@ const CURRENT = [
 ] as const;
 
 export function CaseSheet({ initial, canWrite }: { initial: CaseSheetData; canWrite: boolean }) {
-  const { sheet, samples, sampleRev, outbox, online, submit, dismiss, clockSkewMs } = useCaseSheet(initial);
+  const { sheet, samples, sampleRev, outbox, online, submit, dismiss, clockSkewMs, refresh } = useCaseSheet(initial);
   const [tab, setTab] = useState<Tab>('doses');
   const [nowMs, setNow] = useState(() => Date.now());
   const [showDepth, setShowDepth] = useState(false);
@@ -122,6 +124,7 @@ export function CaseSheet({ initial, canWrite }: { initial: CaseSheetData; canWr
         </div>
         <div className="sheet-state">
           <span className={`status status-${sheet.case.status}`} data-testid="case-status">{STATUS_LABEL[sheet.case.status] ?? sheet.case.status}</span>
+          <a className="button" href={`/cases/${sheet.case.id}/note`} data-testid="open-note">{signed ? 'Case note' : 'Case note · sign'}</a>
           <span className={waiting ? 'save-state waiting' : 'save-state saved'} role="status" aria-live="polite" data-testid="save-state">
             {waiting ? `${waiting} ${waiting === 1 ? 'entry waits' : 'entries wait'} to be saved${online ? '' : ' (offline)'}` : 'All saved'}
           </span>
@@ -185,6 +188,7 @@ export function CaseSheet({ initial, canWrite }: { initial: CaseSheetData; canWr
             {tab === 'markers' && <MarkerPanel events={events} submit={submit} timeZone={tz} disabled={disabled} />}
             {tab === 'recovery' && <RecoveryPanel scores={recovery} submit={submit} timeZone={tz} disabled={disabled} />}
             {tab === 'history' && <HistoryPanel entries={view} submit={submit} timeZone={tz} disabled={disabled} nowMs={nowMs} />}
+            {tab === 'facts' && <FactsPanel facts={sheet.case} onSaved={refresh} disabled={disabled} />}
             {tab === 'import' && <ImportPanel caseId={sheet.case.id} startMs={startMs} timeZone={tz} disabled={disabled} imports={sheet.imports} />}
           </div>
           {overdue !== null && tab !== 'vitals' && (

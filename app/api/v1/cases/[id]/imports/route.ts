@@ -4,6 +4,7 @@ import { NotFoundError, ConflictError } from '@/lib/db/cases';
 import { CsvRejectedError, DuplicateImportError, importMonitorCsv } from '@/lib/db/sampleImport';
 import { readCsvUpload, UploadError } from '@/lib/ingest/monitorCsv';
 import { db } from '@/lib/db/client';
+import { refreshSummary } from '@/lib/db/summaries';
 import { now } from '@/lib/server/clock';
 import { requestOrigin } from '@/lib/server/session';
 
@@ -21,7 +22,10 @@ export async function POST(req: Request, ctx: { params: Promise<{ id: string }> 
     const { id } = await ctx.params;
     const upload = await readCsvUpload(req);
     if (!upload.mapping) throw new HttpError(422, 'mapping: is required; preview the file and send the mapping it shows');
-    const r = await importMonitorCsv(db(), { caseId: id, fileName: upload.fileName, bytes: upload.bytes, text: upload.text, mapping: upload.mapping }, { id: user.id, role: user.role, origin: await requestOrigin() }, now());
+    const t = now();
+    const r = await importMonitorCsv(db(), { caseId: id, fileName: upload.fileName, bytes: upload.bytes, text: upload.text, mapping: upload.mapping }, { id: user.id, role: user.role, origin: await requestOrigin() }, t);
+    // New samples change the analysis: recompute the stored summary so the episode panel agrees.
+    await refreshSummary(db(), id, t).catch(() => {});
     return Response.json({ ok: true, ...r }, { status: 201 });
   } catch (e) {
     if (e instanceof UploadError) return errorResponse(new HttpError(e.status, e.message));
