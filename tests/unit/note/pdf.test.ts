@@ -6,7 +6,6 @@
  */
 import { execFileSync } from 'node:child_process';
 import fs from 'node:fs';
-import { createRequire } from 'node:module';
 import os from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -14,67 +13,7 @@ import type { CaseRecord } from '@/lib/domain/caseRecord';
 import { chartDataFromCase } from '@/lib/note';
 import { renderNotePdf } from '@/lib/note/pdf';
 import { CASE_START, composed, kpaCase, manyEpisodesCase, monitor, quietCase, runs } from '@/tests/fixtures/notes/cases';
-
-const require = createRequire(import.meta.url);
-
-function fontFile(name: string): Uint8Array {
-  const candidates = [() => require.resolve(`dejavu-fonts-ttf/ttf/${name}`), () => `/usr/share/fonts/truetype/dejavu/${name}`];
-  for (const c of candidates) {
-    try {
-      const p = c();
-      if (fs.existsSync(p)) return new Uint8Array(fs.readFileSync(p));
-    } catch {
-      // try the next place
-    }
-  }
-  throw new Error(`font ${name} not found: npm install (dejavu-fonts-ttf) or apt-get install fonts-dejavu-core`);
-}
-
-function tool(name: string): string {
-  for (const dir of ['/usr/bin', '/usr/local/bin']) if (fs.existsSync(path.join(dir, name))) return path.join(dir, name);
-  throw new Error(`${name} is missing: apt-get install poppler-utils (.ci/run installs it)`);
-}
-
-/** A binary PGM (P5) file: width, height and the grey bytes. */
-function readPgm(file: string): { width: number; height: number; pixels: Uint8Array } {
-  const buf = fs.readFileSync(file);
-  const fields: string[] = [];
-  let i = 0;
-  while (fields.length < 4) {
-    while (buf[i] === 0x23 || /\s/.test(String.fromCharCode(buf[i]))) {
-      if (buf[i] === 0x23) while (buf[i] !== 0x0a) i++; // comment to end of line
-      i++;
-    }
-    let tok = '';
-    while (!/\s/.test(String.fromCharCode(buf[i]))) tok += String.fromCharCode(buf[i++]);
-    fields.push(tok);
-  }
-  i++; // the single whitespace after maxval
-  expect(fields[0]).toBe('P5');
-  const [width, height, maxval] = fields.slice(1).map(Number);
-  expect(maxval).toBe(255);
-  return { width, height, pixels: new Uint8Array(buf.subarray(i, i + width * height)) };
-}
-
-/** Share of pixels darker than 200 of 255 on each page. */
-function inkPerPage(pdf: string, dir: string): number[] {
-  const prefix = path.join(dir, path.basename(pdf, '.pdf'));
-  execFileSync(tool('pdftoppm'), ['-r', '50', '-gray', pdf, prefix]);
-  const pages = fs
-    .readdirSync(dir)
-    .filter((f) => f.startsWith(`${path.basename(prefix)}-`) && f.endsWith('.pgm'))
-    .sort();
-  return pages.map((f) => {
-    const { pixels } = readPgm(path.join(dir, f));
-    let dark = 0;
-    for (const p of pixels) if (p < 200) dark++;
-    return dark / pixels.length;
-  });
-}
-
-function pdftotext(pdf: string): string {
-  return execFileSync(tool('pdftotext'), ['-layout', pdf, '-'], { encoding: 'utf8' });
-}
+import { fontFile, inkPerPage, pdftotext, tool } from '../../helpers/pdf';
 
 let dir = '';
 const font = fontFile('DejaVuSans.ttf');
