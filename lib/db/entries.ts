@@ -109,7 +109,7 @@ export async function recordEntry(client: PrismaClient, caseId: string, e: Entry
         const row = await findTarget(tx, e.target, e.targetId, caseId);
         if (row.voidedAt) throw new ConflictError('targetId: this entry was voided or re-timed already; re-time the current entry');
         const newAt = new Date(e.newAt);
-        const reason = e.reason ? `re-timed: ${e.reason}` : `re-timed to ${e.newAt}`;
+        const reason = e.reason ? `re-timed: ${e.reason}` : 're-timed (see the entry at the new time)';
         await updateTarget(tx, e.target, e.targetId, { voidedAt: now, voidedById: actor.id, voidReason: reason });
         await copyWithNewTime(tx, e.target, row, e.id, newAt, actor.id, now);
         await audit('retime', e.target, e.targetId, { at: e.newAt, newId: e.id }, { at: row.at.toISOString() });

@@ -66,8 +66,9 @@ export function useCaseSheet(initial: CaseSheetData) {
         }
       }
       setOnline(reachable && navigator.onLine !== false);
-      setOutbox(await itemsFor(caseId));
+      // Refresh first, so a sent entry is in the server's list before it leaves the waiting list.
       if (anySent) await refresh();
+      setOutbox(await itemsFor(caseId));
     } finally {
       sending.current = false;
     }
