@@ -2,7 +2,7 @@ import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import { startApp, ROOT, type AppServer } from '../helpers/appServer';
-import { artifactPath, chromiumAvailable, launchBrowser } from '../helpers/browser';
+import { artifactPath, chromiumAvailable, launchBrowser, signInPage } from '../helpers/browser';
 import { openRawDatabase } from '@/lib/db/sqlite';
 
 const haveBrowser = chromiumAvailable();
@@ -26,11 +26,7 @@ describe.skipIf(!haveBrowser)('the bedside story, from opening a case to dischar
   it('documents a whole case for a new patient', async () => {
     const nurse = app.account('nurse');
     const page = await browser.newPage({ viewport: { width: 1280, height: 800 } });
-    await page.goto(`${app.url}/sign-in`);
-    await page.getByLabel('Username').fill(nurse.username);
-    await page.getByLabel('Password').fill(nurse.password);
-    await page.getByRole('button', { name: 'Sign in' }).click();
-    await page.waitForURL(/\/cases$/);
+    await signInPage(page, app.url, nurse);
     await shot(page, '01-cases-today');
 
     // Open a case for a new patient.
@@ -68,7 +64,7 @@ describe.skipIf(!haveBrowser)('the bedside story, from opening a case to dischar
       await page.getByTestId('record-dose').click();
     }
     await allSaved(page);
-    expect(await page.getByTestId('dose-totals').textContent()).toMatch(/propofol90 mg0\.978 mg\/kg2/);
+    expect(await page.getByTestId('dose-totals').textContent()).toMatch(/Propofol90 mg0\.978 mg\/kg2/);
     await shot(page, '03-doses');
 
     // Import the monitor CSV with an apnea.

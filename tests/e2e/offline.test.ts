@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
 import { startApp, type AppServer } from '../helpers/appServer';
-import { artifactPath, chromiumAvailable, launchBrowser } from '../helpers/browser';
+import { artifactPath, chromiumAvailable, launchBrowser, signInPage } from '../helpers/browser';
 import { Client } from '../helpers/client';
 import { openRawDatabase } from '@/lib/db/sqlite';
 
@@ -35,11 +35,7 @@ describe.skipIf(!haveBrowser)('offline at the bedside', () => {
 
     const context = await browser.newContext({ viewport: { width: 1280, height: 800 } });
     const page = await context.newPage();
-    await page.goto(`${app.url}/sign-in`);
-    await page.getByLabel('Username').fill(nurse.username);
-    await page.getByLabel('Password').fill(nurse.password);
-    await page.getByRole('button', { name: 'Sign in' }).click();
-    await page.waitForURL(/\/cases$/);
+    await signInPage(page, app.url, nurse);
     await page.goto(`${app.url}/cases/${caseId}`);
     await page.getByTestId('save-state').waitFor();
     expect(await page.getByTestId('save-state').textContent()).toBe('All saved');
@@ -81,11 +77,7 @@ describe.skipIf(!haveBrowser)('offline at the bedside', () => {
     const caseId = (await api.post('/api/v1/cases', { patient: { mrn: 'OFF-0002', familyName: 'Offline', givenName: 'Oscar', birthDate: '1966-07-08', sex: 'male' }, procedureType: 'colonoscopy', roomId: 'room-1', plannedDepth: 'deep' })).json.id as string;
     const context = await browser.newContext();
     const page = await context.newPage();
-    await page.goto(`${app.url}/sign-in`);
-    await page.getByLabel('Username').fill(nurse.username);
-    await page.getByLabel('Password').fill(nurse.password);
-    await page.getByRole('button', { name: 'Sign in' }).click();
-    await page.waitForURL(/\/cases$/);
+    await signInPage(page, app.url, nurse);
     await page.goto(`${app.url}/cases/${caseId}`);
     await page.getByTestId('save-state').waitFor();
     // Block only the entries endpoint, so the page itself can reload.

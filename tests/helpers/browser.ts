@@ -27,3 +27,12 @@ export function artifactPath(test: string, step: string): string {
   fs.mkdirSync(dir, { recursive: true });
   return path.join(dir, `${step}.png`);
 }
+
+/** Signs in through the form, as a person would, and waits for the start page. */
+export async function signInPage(page: import('playwright-core').Page, baseUrl: string, account: { username: string; password: string }, landing: RegExp = /\/cases$/): Promise<void> {
+  await page.goto(`${baseUrl}/sign-in`);
+  await page.getByLabel('Username').fill(account.username);
+  await page.getByLabel('Password').fill(account.password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.waitForURL(landing);
+}

@@ -1,7 +1,9 @@
 'use client';
 import { useEffect, useMemo, useState } from 'react';
 import type { CaseSheetData } from '@/lib/db/caseSheet';
-import { doseCaution, drugTotals } from '@/lib/domain/doseTotals';
+import { doseCaution } from '@/lib/domain/doseTotals';
+import { drugTotals } from '@/lib/note/drugTotals';
+import type { DoseUnit, DrugClass } from '@/lib/domain/drug';
 import type { Submit } from './shared';
 
 type Drug = CaseSheetData['drugs'][number];
@@ -37,7 +39,12 @@ export function DosePanel({ sheet, doses, submit, disabled }: { sheet: CaseSheet
   const value = Number(amount);
   const valid = amount !== '' && Number.isFinite(value) && value > 0;
   const caution = drug && valid && doseCaution(value, drug);
-  const totals = useMemo(() => drugTotals(doses.map((d) => ({ drug: d.drug, amount: d.amount, unit: d.unit, voided: !!d.voided })), sheet.case.weightKg), [doses, sheet.case.weightKg]);
+  // The same totals the signed note will print (lib/note): voided doses left out.
+  const totals = useMemo(() => {
+    const drugs = Object.fromEntries(sheet.drugs.map((d) => [d.name, { label: d.name.charAt(0).toUpperCase() + d.name.slice(1), drugClass: d.drugClass as DrugClass }]));
+    const live = doses.filter((d) => !d.voided).map((d, i) => ({ t: i, drug: d.drug, amount: d.amount, unit: d.unit as DoseUnit, route: 'IV' }));
+    return drugTotals(live, sheet.case.weightKg, { drugs });
+  }, [doses, sheet.case.weightKg, sheet.drugs]);
   const key = (k: string) => setAmount((a) => (k === '⌫' ? a.slice(0, -1) : k === '.' && a.includes('.') ? a : (a + k).replace(/^0(\d)/, '$1').slice(0, 8)));
 
   const record = async () => {
@@ -100,11 +107,11 @@ export function DosePanel({ sheet, doses, submit, disabled }: { sheet: CaseSheet
         </thead>
         <tbody>
           {totals.map((t) => (
-            <tr key={t.drug}>
-              <td>{t.drug}</td>
+            <tr key={`${t.drug}-${t.unit}`}>
+              <td>{t.label}</td>
               <td>{t.total} {t.unit}</td>
-              <td>{t.perKg === null ? <span className="muted">no weight</span> : `${t.perKg} ${t.unit}/kg`}</td>
-              <td>{t.doses}</td>
+              <td>{t.perKg === null ? <span className="muted">{sheet.case.weightKg ? '–' : 'no weight'}</span> : `${t.perKg.value} ${t.perKg.unit}`}</td>
+              <td>{t.doseCount}</td>
             </tr>
           ))}
           {totals.length === 0 && (
