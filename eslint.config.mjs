@@ -2,7 +2,7 @@ import tseslint from 'typescript-eslint';
 import nextPlugin from '@next/eslint-plugin-next';
 import reactHooks from 'eslint-plugin-react-hooks';
 
-const pureFolders = ['lib/rules', 'lib/stats', 'lib/capnogram', 'lib/note', 'lib/ingest', 'lib/export', 'lib/domain', 'lib/demo', 'lib/_shared'];
+const pureFolders = ['lib/rules', 'lib/stats', 'lib/capnogram', 'lib/note', 'lib/ingest', 'lib/export', 'lib/domain', 'lib/demo', 'lib/_shared', 'lib/indicators', 'lib/review'];
 
 export default tseslint.config(
   { ignores: ['node_modules/**', '.next/**', 'lib/db/generated/**', 'data/**', 'tests/artifacts/**', 'next-env.d.ts'] },

@@ -2,6 +2,7 @@ import { createHash } from 'node:crypto';
 import type { PrismaClient } from './generated/client';
 import { loadCaseRecord } from './caseRecord';
 import { analyzeCase, getBuiltInRuleSet } from '@/lib/rules';
+import { appendAudit } from './audit';
 import type { RuleSet } from '@/lib/domain/ruleSet';
 import type { Analysis } from '@/lib/domain/episode';
 import type { CaseRecord } from '@/lib/domain/caseRecord';
@@ -95,4 +96,24 @@ export async function recomputeAllSummaries(client: PrismaClient, now: Date, onP
     onProgress?.(done, cases.length);
   }
   return done;
+}
+
+/**
+ * Makes a rule set the unit's active one and brings every case's stored summary up to date for
+ * it (cases already computed for that version are skipped by their input hash).
+ */
+export async function setActiveRuleSet(client: PrismaClient, unitId: string, ref: { id: string; version: number }, actor: { id: string; role: string; origin: string | null }, now: Date, onProgress?: (done: number, total: number) => void): Promise<{ recomputed: number }> {
+  const rs = await resolveRuleSet(client, ref.id, ref.version);
+  await client.$transaction(async (tx) => {
+    const before = await tx.unit.findUniqueOrThrow({ where: { id: unitId }, select: { activeRuleSetId: true, activeRuleSetVersion: true } });
+    await tx.unit.update({ where: { id: unitId }, data: { activeRuleSetId: rs.id, activeRuleSetVersion: rs.version } });
+    await appendAudit(tx, { at: now, actorId: actor.id, role: actor.role, action: 'update', entity: 'unit_rule_set', entityId: unitId, before, after: { activeRuleSetId: rs.id, activeRuleSetVersion: rs.version }, origin: actor.origin });
+  });
+  const cases = await client.case.findMany({ where: { unitId }, select: { id: true }, orderBy: { id: 'asc' } });
+  let done = 0;
+  for (const c of cases) {
+    await refreshSummary(client, c.id, now, rs);
+    onProgress?.(++done, cases.length);
+  }
+  return { recomputed: done };
 }

@@ -61,6 +61,7 @@ export const ACCESS = {
   // API: administration
   'GET /api/v1/admin/users': ['admin'],
   'POST /api/v1/admin/users': ['admin'],
+  'POST /api/v1/admin/rule-set': ['admin', 'lead'],
 } as const satisfies Record<string, readonly Role[]>;
 
 /** Routes reachable without a session. */

@@ -4,12 +4,17 @@ import { db } from '@/lib/db/client';
 import { ROLE_LABEL, isRole } from '@/lib/server/roles';
 import { TopBar } from '../../top-bar';
 import { CreateUserForm } from './create-user-form';
+import { RuleSetForm } from './rule-set-form';
+import { listBuiltInRuleSets } from '@/lib/rules';
+import { unitForUser } from '@/lib/server/unit';
 
 export const dynamic = 'force-dynamic';
 
 export default async function AdminPage() {
   const user = await requireAccess('/admin');
   const users = await listUsers(db());
+  const unit = await unitForUser(user);
+  const ruleSets = listBuiltInRuleSets().map((r) => ({ id: r.id, version: r.version, description: r.description.slice(0, 90) }));
   return (
     <>
       <TopBar user={user} />
@@ -34,6 +39,11 @@ export default async function AdminPage() {
         <div style={{ marginTop: 12 }}>
           <CreateUserForm />
         </div>
+        {unit && (
+          <div style={{ marginTop: 12 }}>
+            <RuleSetForm options={ruleSets} active={{ id: unit.activeRuleSetId, version: unit.activeRuleSetVersion }} />
+          </div>
+        )}
       </main>
     </>
   );
