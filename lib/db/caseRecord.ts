@@ -73,6 +73,6 @@ export async function loadCaseRecord(client: PrismaClient, caseId: string): Prom
     series,
     doses: c.doses.map((d) => ({ t: sec(d.at), drug: d.drug, amount: d.amount, unit: d.unit as DoseUnit, route: d.route, drugClass: d.drugClass as DrugClass })),
     interventions: c.interventions.map((i) => ({ t: sec(i.at), kind: i.kind as InterventionKind, ...(i.note ? { note: i.note } : {}) })),
-    events: c.events.map((e) => ({ t: sec(e.at), kind: e.kind as CaseEventKind })),
+    events: c.events.map((e) => ({ t: sec(e.at), kind: e.kind as CaseEventKind, ...(e.note ? { note: e.note } : {}) })),
   };
 }

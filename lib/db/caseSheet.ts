@@ -41,7 +41,8 @@ export interface CaseSheetData {
   drugs: { id: string; name: string; drugClass: string; defaultUnit: string; defaultRoute: string; usualDose: number | null; cautionAbove: number | null; concentration: string | null }[];
   doses: (SheetEntryBase & { drugId: string | null; drug: string; amount: number; unit: string; route: string })[];
   interventions: (SheetEntryBase & { kind: string; note: string | null })[];
-  events: (SheetEntryBase & { kind: string })[];
+  events: (SheetEntryBase & { kind: string; note: string | null })[];
+  bloodGases: (SheetEntryBase & { paco2: number; enteredUnit: string; ph: number | null; pao2: number | null; fio2: number | null; sampleType: string })[];
   vitals: (SheetEntryBase & { sbp: number | null; dbp: number | null; hr: number | null; spo2: number | null; rr: number | null; etco2: number | null; sedationScore: number | null })[];
   recovery: (SheetEntryBase & { activity: number; respiration: number; circulation: number; consciousness: number; oxygenation: number; total: number })[];
   /** Monitor samples after `afterSampleId`, seconds from startAt, per channel (EtCO2 in mmHg). */
@@ -68,6 +69,7 @@ export async function loadCaseSheet(client: PrismaClient, caseId: string, afterS
     },
   });
   if (!c) return null;
+  const gases = await client.bloodGas.findMany({ where: { caseId }, orderBy: { at: 'asc' } });
   const [drugs, users, samples, imports] = await Promise.all([
     client.drug.findMany({ where: { unitId: c.unitId, active: true }, orderBy: [{ sortOrder: 'asc' }, { name: 'asc' }] }),
     client.user.findMany({ where: { unitId: c.unitId }, select: { id: true, displayName: true } }),
@@ -130,7 +132,8 @@ export async function loadCaseSheet(client: PrismaClient, caseId: string, afterS
     drugs: drugs.map((d) => ({ id: d.id, name: d.name, drugClass: d.drugClass, defaultUnit: d.defaultUnit, defaultRoute: d.defaultRoute, usualDose: d.usualDose, cautionAbove: d.cautionAbove, concentration: d.concentration })),
     doses: c.doses.map((d) => ({ ...base(d), drugId: d.drugId, drug: d.drug, amount: d.amount, unit: d.unit, route: d.route })),
     interventions: c.interventions.map((i) => ({ ...base(i), kind: i.kind, note: i.note })),
-    events: c.events.map((e) => ({ ...base(e), kind: e.kind })),
+    events: c.events.map((e) => ({ ...base(e), kind: e.kind, note: e.note })),
+    bloodGases: gases.map((g) => ({ ...base({ ...g, replacesId: null }), paco2: g.paco2, enteredUnit: g.enteredUnit, ph: g.ph, pao2: g.pao2, fio2: g.fio2, sampleType: g.sampleType })),
     vitals: c.vitals.map((v) => ({ ...base(v), sbp: v.sbp, dbp: v.dbp, hr: v.hr, spo2: v.spo2, rr: v.rr, etco2: v.etco2, sedationScore: v.sedationScore })),
     recovery: c.recoveryScores.map((r) => ({ ...base({ ...r, replacesId: null }), activity: r.activity, respiration: r.respiration, circulation: r.circulation, consciousness: r.consciousness, oxygenation: r.oxygenation, total: r.total })),
     samples: { lastId, channels },

@@ -2,6 +2,7 @@ import type { PrismaClient } from './generated/client';
 import type { EntryInput } from '@/lib/domain/entry';
 import { aldreteTotal } from '@/lib/domain/aldrete';
 import { appendAudit } from './audit';
+import { MMHG_PER_KPA } from '@/lib/domain/channel';
 import { ConflictError, NotFoundError } from './cases';
 
 export interface Actor {
@@ -62,14 +63,14 @@ export async function recordEntry(client: PrismaClient, caseId: string, e: Entry
         const existing = await tx.caseEvent.findUnique({ where: { id: e.id } });
         if (existing) return same(existing.caseId === caseId && existing.kind === e.kind, e.id, c.status);
         guardSigned();
-        await tx.caseEvent.create({ data: { id: e.id, caseId, kind: e.kind, at, createdAt: now, createdById: actor.id } });
+        await tx.caseEvent.create({ data: { id: e.id, caseId, kind: e.kind, at, note: e.note || null, createdAt: now, createdById: actor.id } });
         let status = c.status;
         const move = STATUS_AFTER_EVENT[e.kind];
         if (move && move.from.includes(c.status)) {
           status = move.to;
           await tx.case.update({ where: { id: caseId }, data: { status, version: { increment: 1 } } });
         }
-        await audit('create', 'event', e.id, { kind: e.kind, at: e.at, status });
+        await audit('create', 'event', e.id, { kind: e.kind, at: e.at, status, note: e.note ?? null });
         return { id: e.id, created: true, status };
       }
       case 'vital': {
@@ -89,6 +90,16 @@ export async function recordEntry(client: PrismaClient, caseId: string, e: Entry
         const total = aldreteTotal(items);
         await tx.recoveryScore.create({ data: { id: e.id, caseId, at, ...items, total, createdAt: now, createdById: actor.id } });
         await audit('create', 'recovery_score', e.id, { at: e.at, ...items, total });
+        return { id: e.id, created: true, status: c.status };
+      }
+      case 'blood_gas': {
+        const existing = await tx.bloodGas.findUnique({ where: { id: e.id } });
+        if (existing) return same(existing.caseId === caseId, e.id, c.status);
+        guardSigned();
+        const paco2 = e.unit === 'kPa' ? Math.round(e.paco2 * MMHG_PER_KPA * 10) / 10 : e.paco2;
+        const data = { paco2, enteredUnit: e.unit, ph: e.ph ?? null, pao2: e.pao2 ?? null, fio2: e.fio2 ?? null, sampleType: e.sampleType };
+        await tx.bloodGas.create({ data: { id: e.id, caseId, at, ...data, createdAt: now, createdById: actor.id } });
+        await audit('create', 'blood_gas', e.id, { at: e.at, ...data });
         return { id: e.id, created: true, status: c.status };
       }
       case 'void': {
@@ -147,6 +158,7 @@ async function updateTarget(tx: Tx, target: string, id: string, data: { voidedAt
   else if (target === 'intervention') await tx.intervention.update(args);
   else if (target === 'event') await tx.caseEvent.update(args);
   else if (target === 'vital') await tx.manualVital.update(args);
+  else if (target === 'blood_gas') await tx.bloodGas.update(args);
   else await tx.recoveryScore.update(args);
 }
 
@@ -167,8 +179,8 @@ async function copyWithNewTime(tx: Tx, target: string, row: TargetRow, newId: st
     const r = row as unknown as { kind: string; note: string | null };
     await tx.intervention.create({ data: { ...base, kind: r.kind, note: r.note } });
   } else if (target === 'event') {
-    const r = row as unknown as { kind: string };
-    await tx.caseEvent.create({ data: { ...base, kind: r.kind } });
+    const r = row as unknown as { kind: string; note: string | null };
+    await tx.caseEvent.create({ data: { ...base, kind: r.kind, note: r.note } });
   } else {
     const r = row as unknown as { sbp: number | null; dbp: number | null; hr: number | null; spo2: number | null; rr: number | null; etco2: number | null; sedationScore: number | null };
     await tx.manualVital.create({ data: { ...base, sbp: r.sbp, dbp: r.dbp, hr: r.hr, spo2: r.spo2, rr: r.rr, etco2: r.etco2, sedationScore: r.sedationScore } });

@@ -132,6 +132,7 @@ export const DEMO_FORMULARY: readonly FormularyDrug[] = [
   { drug: 'ketamine', label: 'Ketamine', drugClass: 'sedative', unit: 'mg', route: 'IV', concentration: '10 mg/mL', usualDose: 20, cautionAbove: 100 },
   { drug: 'naloxone', label: 'Naloxone', drugClass: 'reversal', unit: 'mcg', route: 'IV', concentration: '400 mcg/mL', usualDose: 100, cautionAbove: 400 },
   { drug: 'flumazenil', label: 'Flumazenil', drugClass: 'reversal', unit: 'mg', route: 'IV', concentration: '0.1 mg/mL', usualDose: 0.2, cautionAbove: 1 },
+  { drug: 'epinephrine', label: 'Epinephrine (adrenaline)', drugClass: 'other', unit: 'mg', route: 'IV', concentration: '0.1 mg/mL', usualDose: 1, cautionAbove: 2 },
   { drug: 'glycopyrrolate', label: 'Glycopyrrolate', drugClass: 'other', unit: 'mcg', route: 'IV', concentration: '200 mcg/mL', usualDose: 200, cautionAbove: 400 },
 ];
 

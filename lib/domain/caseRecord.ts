@@ -64,10 +64,21 @@ export const CASE_EVENT_KINDS = [
   'recovery_start',
   'discharge',
   'sedation_end',
+  // Resuscitation entries (the view that chest_compressions opens); compressions themselves start
+  // with the `chest_compressions` intervention.
+  'compressions_paused',
+  'compressions_resumed',
+  'compressions_stopped',
+  'rhythm_check',
+  'shock',
+  'airway_placed',
+  'rosc',
+  'team_note',
 ] as const;
 export type CaseEventKind = (typeof CASE_EVENT_KINDS)[number];
 
 export interface CaseEventEntry {
   t: number;
   kind: CaseEventKind;
+  note?: string;
 }

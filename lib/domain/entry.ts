@@ -34,7 +34,23 @@ export const EventEntryInput = z.object({
   id,
   at,
   kind: z.enum(CASE_EVENT_KINDS, { message: `must be one of ${CASE_EVENT_KINDS.join(', ')}` }),
+  note,
 });
+
+/** A blood gas; PaCO2 in the unit it was read in (kPa is converted to mmHg when stored). */
+export const BloodGasEntryInput = z
+  .object({
+    type: z.literal('blood_gas'),
+    id,
+    at,
+    paco2: z.number({ message: 'must be a number' }).positive({ message: 'must be more than 0' }),
+    unit: z.enum(['mmHg', 'kPa'], { message: 'must be mmHg or kPa' }),
+    ph: z.number({ message: 'must be a number' }).min(6.5, { message: 'must be between 6.5 and 8.0' }).max(8.0, { message: 'must be between 6.5 and 8.0' }).nullable().optional(),
+    pao2: z.number({ message: 'must be a number' }).positive().max(800, { message: 'is not plausible' }).nullable().optional(),
+    fio2: z.number({ message: 'must be a number' }).min(0.21, { message: 'must be a fraction 0.21–1.0' }).max(1, { message: 'must be a fraction 0.21–1.0' }).nullable().optional(),
+    sampleType: z.enum(['arterial', 'venous', 'capillary'], { message: 'must be arterial, venous or capillary' }).default('arterial'),
+  })
+  .refine((g) => (g.unit === 'mmHg' ? g.paco2 >= 5 && g.paco2 <= 200 : g.paco2 >= 0.7 && g.paco2 <= 27), { message: 'is out of range for the unit (mmHg 5–200, kPa 0.7–27)', path: ['paco2'] });
 
 const opt = (min: number, max: number, what: string) =>
   z.number({ message: 'must be a number' }).min(min, { message: `${what}: must be at least ${min}` }).max(max, { message: `${what}: must be at most ${max}` }).nullable().optional();
@@ -67,7 +83,7 @@ export const RecoveryEntryInput = z.object({
   oxygenation: item,
 });
 
-export const ENTRY_TARGETS = ['dose', 'intervention', 'event', 'vital', 'recovery'] as const;
+export const ENTRY_TARGETS = ['dose', 'intervention', 'event', 'vital', 'recovery', 'blood_gas'] as const;
 export type EntryTarget = (typeof ENTRY_TARGETS)[number];
 
 export const VoidEntryInput = z.object({
@@ -89,13 +105,13 @@ export const RetimeEntryInput = z.object({
   reason: z.string().trim().max(300).optional(),
 });
 
-export const EntryInput = z.union([DoseEntryInput, InterventionEntryInput, EventEntryInput, VitalEntryInput, RecoveryEntryInput, VoidEntryInput, RetimeEntryInput]);
+export const EntryInput = z.union([DoseEntryInput, InterventionEntryInput, EventEntryInput, VitalEntryInput, RecoveryEntryInput, BloodGasEntryInput, VoidEntryInput, RetimeEntryInput]);
 export type EntryInput = z.infer<typeof EntryInput>;
 
 /** Parses one entry, choosing the schema by `type` first so messages name the real fields. */
 export function parseEntry(body: unknown): EntryInput {
   const type = typeof body === 'object' && body !== null ? (body as { type?: unknown }).type : undefined;
-  const schema = { dose: DoseEntryInput, intervention: InterventionEntryInput, event: EventEntryInput, vital: VitalEntryInput, recovery: RecoveryEntryInput, void: VoidEntryInput, retime: RetimeEntryInput }[String(type)];
-  if (!schema) return z.object({ type: z.enum(['dose', 'intervention', 'event', 'vital', 'recovery', 'void', 'retime'], { message: 'must be dose, intervention, event, vital, recovery, void or retime' }) }).parse(body) as never;
+  const schema = { dose: DoseEntryInput, intervention: InterventionEntryInput, event: EventEntryInput, vital: VitalEntryInput, recovery: RecoveryEntryInput, blood_gas: BloodGasEntryInput, void: VoidEntryInput, retime: RetimeEntryInput }[String(type)];
+  if (!schema) return z.object({ type: z.enum(['dose', 'intervention', 'event', 'vital', 'recovery', 'blood_gas', 'void', 'retime'], { message: 'must be dose, intervention, event, vital, recovery, blood_gas, void or retime' }) }).parse(body) as never;
   return schema.parse(body);
 }

@@ -135,7 +135,7 @@ const doseShape = z.strictObject({
 });
 
 const interventionShape = z.strictObject({ t: z.number(), kind: z.string(), note: z.string().optional() });
-const eventShape = z.strictObject({ t: z.number(), kind: z.string() });
+const eventShape = z.strictObject({ t: z.number(), kind: z.string(), note: z.string().optional() });
 
 const caseFileShape = z.strictObject({
   format: z.string(),
@@ -320,6 +320,7 @@ export function parseCaseObject(value: unknown): CaseRecord {
   const events: CaseEventEntry[] = (raw.events ?? []).map((x, i) => ({
     t: checkTime(x.t, `events[${i}].t`),
     kind: oneOf(CASE_EVENT_KINDS, x.kind, `events[${i}].kind`, 'event kind'),
+    ...(x.note !== undefined ? { note: x.note } : {}),
   }));
 
   const record: CaseRecord = {

@@ -1,3 +1,5 @@
+import { analyzeResuscitation } from '@/lib/rules/resuscitation';
+import { MMHG_PER_KPA } from '@/lib/domain/channel';
 import type { CaseEventKind } from '@/lib/domain/caseRecord';
 import { ASA_MEANING, DEPTH_LABEL, bmi as bmiOf } from '@/lib/domain/caseFacts';
 import { CAUTION_TEXT } from '@/lib/domain/caution';
@@ -11,7 +13,7 @@ import { clockAt, formatDateTime } from './format';
 import { ABRUPT_APNEA_HINT, CASE_LEVEL_LABEL, CASE_LEVEL_MEANING, CONFIRM_INTERVENTIONS_REQUEST, ruleLabel } from './labels';
 import { findDataGaps, samplingInterval } from './monitoring';
 import { renderNoteText } from './noteText';
-import type { CaseNote, ChannelUse, DepthId, EpisodeLine, InterventionLine, NoteInput, TimePoint, TimedValue } from './types';
+import type { CaseNote, ChannelUse, DepthId, EpisodeLine, InterventionLine, NoteInput, ResuscitationSection, TimePoint, TimedValue } from './types';
 
 /**
  * Compose the case note of one case version: structured sections from the CaseRecord, its
@@ -181,10 +183,30 @@ export function composeNote(input: NoteInput): CaseNote {
       scores: [...facts.recoveryScores].sort((a, b) => a.t - b.t).map((s) => ({ at: at(s.t), total: s.total, items: { ...(s.items ?? {}) } })),
       discharge: dischargeT === null ? null : at(dischargeT),
     },
+    resuscitation: resuscitationSection(record, at),
     freeText: facts.freeText !== null && facts.freeText.trim() !== '' ? facts.freeText : null,
     signatures: facts.signatures.map((s) => ({ by: s.by, role: s.role, at: s.at, atLocal: formatDateTime(s.at, timeZone), kind: s.kind, reason: s.reason ?? null })),
     ruleSet: { id: analysis.ruleSet.id, version: analysis.ruleSet.version },
     caution: CAUTION_TEXT,
   };
   return { ...note, text: renderNoteText(note) };
+}
+
+const BAND_WORDS: Record<string, string> = { good: 'above the ideal', minimum: 'at or above the minimum', below_minimum: 'below the minimum', no_data: 'no EtCO2' };
+
+/** The resuscitation section: compression time, per-minute EtCO2, flags and the timeline (lib/rules/resuscitation). */
+function resuscitationSection(record: NoteInput['record'], at: (t: number) => TimePoint): ResuscitationSection | null {
+  const r = analyzeResuscitation(record);
+  if (!r) return null;
+  const unit = record.case.etco2Unit;
+  const show = (mmHg: number | null) => (mmHg === null ? null : unit === 'kPa' ? Math.round((mmHg / MMHG_PER_KPA) * 100) / 100 : mmHg);
+  return {
+    rules: r.rules,
+    compressionS: r.compressionS,
+    periods: r.periods.map((p) => ({ start: at(p.start), end: p.end === null ? null : at(p.end), endedBy: p.endedBy })),
+    minutes: r.minutes.map((m) => ({ minute: m.minute, median: show(m.medianMmHg), unit, band: BAND_WORDS[m.band] ?? m.band })),
+    fatigueFlags: r.fatigueFlags.map((f) => ({ at: at(f.t), minute: f.minute })),
+    possibleRoscFlags: r.possibleRoscFlags.map((f) => ({ at: at(f.t) })),
+    timeline: r.timeline.map((x) => ({ at: at(x.t), label: x.label, ...(x.note ? { note: x.note } : {}) })),
+  };
 }

@@ -189,6 +189,16 @@ export function renderNoteText(note: Omit<CaseNote, 'text'>): string {
   if (cl.confirmRequest !== null) out.push(cl.confirmRequest);
   if (cl.coSignatureNeeded) out.push('Co-signature required');
 
+  if (note.resuscitation !== null) {
+    const z = note.resuscitation;
+    section('Resuscitation');
+    out.push(`Compression time ${formatDuration(z.compressionS)} (${z.rules.id} v${z.rules.version})`);
+    for (const x of z.timeline) out.push(`${x.at.clock} ${x.label}${x.note !== undefined ? ` — ${x.note}` : ''}`);
+    for (const m of z.minutes) out.push(`Minute ${formatNumber(m.minute, 0)} of compressions: median EtCO2 ${m.median === null ? 'not recorded' : formatChannelValue(m.median, m.unit)} (${m.band})`);
+    for (const f of z.fatigueFlags) out.push(`${f.at.clock} EtCO2 fell over consecutive minutes: compressor fatigue possible`);
+    for (const f of z.possibleRoscFlags) out.push(`${f.at.clock} Abrupt sustained rise of EtCO2: pulse check prompted`);
+  }
+
   section('Recovery');
   const r = note.recovery;
   if (r.scores.length === 0) out.push('No recovery score recorded');

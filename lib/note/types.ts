@@ -284,6 +284,17 @@ export interface SignatureLine {
   reason: string | null;
 }
 
+export interface ResuscitationSection {
+  rules: RuleSetRef;
+  compressionS: number;
+  periods: { start: TimePoint; end: TimePoint | null; endedBy: string | null }[];
+  /** Per-minute median EtCO2 during compressions, in the case's display unit. */
+  minutes: { minute: number; median: number | null; unit: 'mmHg' | 'kPa'; band: string }[];
+  fatigueFlags: { at: TimePoint; minute: number }[];
+  possibleRoscFlags: { at: TimePoint }[];
+  timeline: { at: TimePoint; label: string; note?: string }[];
+}
+
 export interface CaseNote {
   format: 'plateau-note/1';
   version: number;
@@ -305,6 +316,8 @@ export interface CaseNote {
   interventions: InterventionLine[];
   caseLevel: CaseLevelSection;
   recovery: RecoverySection;
+  /** Present when chest compressions were recorded: its own section with the timeline. */
+  resuscitation: ResuscitationSection | null;
   freeText: string | null;
   signatures: SignatureLine[];
   ruleSet: RuleSetRef;

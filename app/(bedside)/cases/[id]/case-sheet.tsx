@@ -15,6 +15,11 @@ import { RecoveryPanel } from './recovery-panel';
 import { HistoryPanel } from './history-panel';
 import { ImportPanel } from './import-panel';
 import { FactsPanel } from './facts-panel';
+import { ResuscitationPanel } from './resuscitation-panel';
+import { GasPanel } from './gas-panel';
+import { analyzeResuscitation, PLATEAU_RESUSCITATION_V1 } from '@/lib/rules/resuscitation';
+import { co2Gaps } from '@/lib/rules/co2Gap';
+import type { CaseRecord } from '@/lib/domain/caseRecord';
 import { clock, mergeWaiting, pendingVoids, secs, type ViewEntry } from './shared';
 
 const TABS = [
@@ -26,6 +31,7 @@ const TABS = [
   { id: 'history', label: 'History', key: 'h' },
   { id: 'import', label: 'Import', key: 'u' },
   { id: 'facts', label: 'Facts', key: 'f' },
+  { id: 'gas', label: 'Blood gas', key: 'g' },
 ] as const;
 type Tab = (typeof TABS)[number]['id'];
 
@@ -41,6 +47,7 @@ export function CaseSheet({ initial, canWrite }: { initial: CaseSheetData; canWr
   const [tab, setTab] = useState<Tab>('doses');
   const [nowMs, setNow] = useState(() => Date.now());
   const [showDepth, setShowDepth] = useState(false);
+  const [tabsOverride, setTabsOverride] = useState(false);
   const tz = sheet.case.unit.timeZone;
   const startMs = new Date(sheet.case.startAt).getTime();
   const signed = sheet.case.status === 'signed';
@@ -70,7 +77,7 @@ export function CaseSheet({ initial, canWrite }: { initial: CaseSheetData; canWr
     return { id: b.id, at: b.at, by: null, createdAt: b.at, voided: null, replacesId: null, drugId: String(b.drugId), drug: d?.name ?? String(b.drugId), amount: Number(b.amount), unit: String(b.unit), route: String(b.route) };
   });
   const interventions = mergeWaiting(sheet.interventions, outbox, 'intervention', (b) => ({ id: b.id, at: b.at, by: null, createdAt: b.at, voided: null, replacesId: null, kind: String(b.kind), note: (b.note as string) ?? null }));
-  const events = mergeWaiting(sheet.events, outbox, 'event', (b) => ({ id: b.id, at: b.at, by: null, createdAt: b.at, voided: null, replacesId: null, kind: String(b.kind) }));
+  const events = mergeWaiting(sheet.events, outbox, 'event', (b) => ({ id: b.id, at: b.at, by: null, createdAt: b.at, voided: null, replacesId: null, kind: String(b.kind), note: (b.note as string) ?? null }));
   const vitals = mergeWaiting(sheet.vitals, outbox, 'vital', (b) => ({ id: b.id, at: b.at, by: null, createdAt: b.at, voided: null, replacesId: null, sbp: (b.sbp as number) ?? null, dbp: (b.dbp as number) ?? null, hr: (b.hr as number) ?? null, spo2: (b.spo2 as number) ?? null, rr: (b.rr as number) ?? null, etco2: (b.etco2 as number) ?? null, sedationScore: (b.sedationScore as number) ?? null }));
   const recovery = mergeWaiting(sheet.recovery, outbox, 'recovery', (b) => ({ id: b.id, at: b.at, by: null, createdAt: b.at, voided: null, replacesId: null, activity: Number(b.activity), respiration: Number(b.respiration), circulation: Number(b.circulation), consciousness: Number(b.consciousness), oxygenation: Number(b.oxygenation), total: ['activity', 'respiration', 'circulation', 'consciousness', 'oxygenation'].reduce((s, k) => s + Number(b[k]), 0) }));
 
@@ -93,6 +100,21 @@ export function CaseSheet({ initial, canWrite }: { initial: CaseSheetData; canWr
   );
 
   const nowS = (nowMs - startMs) / 1000;
+  // The resuscitation view and the CO2 gap are computed here from what the sheet shows.
+  const co2 = samples.etco2 ?? { t: [], v: [] };
+  const live = <T extends { voided: unknown }>(xs: T[]) => xs.filter((x) => !x.voided);
+  const miniRecord: CaseRecord = {
+    case: { start: sheet.case.startAt, etco2Unit: 'mmHg' },
+    series: [{ channel: 'etco2', unit: 'mmHg', source: 'monitor', t: co2.t, v: co2.v }],
+    doses: live(doses).map((d) => ({ t: secs(sheet, d.at), drug: d.drug, amount: d.amount, unit: d.unit as 'mg', route: d.route })),
+    interventions: live(interventions).map((i) => ({ t: secs(sheet, i.at), kind: i.kind as never, ...(i.note ? { note: i.note } : {}) })),
+    events: live(events).map((e) => ({ t: secs(sheet, e.at), kind: e.kind as never, ...(e.note ? { note: e.note } : {}) })),
+  };
+  const resus = analyzeResuscitation(miniRecord, PLATEAU_RESUSCITATION_V1, { nowS });
+  const resusOpen = !!resus && (resus.active || resus.periods[resus.periods.length - 1]?.endedBy === 'paused');
+  const [showTabs, setShowTabs] = [tabsOverride, setTabsOverride];
+  const gases = sheet.bloodGases.filter((g) => !g.voided);
+  const gaps = co2Gaps(miniRecord, gases.map((g) => ({ id: g.id, t: secs(sheet, g.at), paco2MmHg: g.paco2, sampleType: g.sampleType as 'arterial' })));
   const sedStart = events.find((e) => e.kind === 'sedation_start' && !e.voided);
   const sedEnd = events.find((e) => (e.kind === 'recovery_start' || e.kind === 'sedation_end') && !e.voided);
   const lastBp = [...vitals].filter((v) => !v.voided && (v.sbp !== null || v.hr !== null)).sort((a, b) => Date.parse(b.at) - Date.parse(a.at))[0];
@@ -169,11 +191,27 @@ export function CaseSheet({ initial, canWrite }: { initial: CaseSheetData; canWr
             })}
           </div>
           <div className="panel">
-            <TrendChart series={samples} episodes={sheet.analysis?.episodes ?? []} markers={markers} startMs={startMs} timeZone={tz} etco2Unit={sheet.case.etco2Unit} />
+            <TrendChart
+              series={samples}
+              episodes={sheet.analysis?.episodes ?? []}
+              markers={markers}
+              startMs={startMs}
+              timeZone={tz}
+              etco2Unit={sheet.case.etco2Unit}
+              bands={resus ? [{ fromMmHg: PLATEAU_RESUSCITATION_V1.targets.minimumMmHg, toMmHg: PLATEAU_RESUSCITATION_V1.targets.goodMmHg, colour: 'rgba(232,180,107,0.12)' }, { fromMmHg: PLATEAU_RESUSCITATION_V1.targets.goodMmHg, toMmHg: 60, colour: 'rgba(143,207,143,0.08)' }] : []}
+            />
           </div>
           <EpisodePanel analysis={sheet.analysis} startMs={startMs} timeZone={tz} />
         </div>
         <aside className="sheet-side panel">
+          {resusOpen && !showTabs ? (
+            <>
+              <ResuscitationPanel r={resus!} submit={submit} disabled={disabled} startMs={startMs} timeZone={tz} epinephrineId={sheet.drugs.find((d) => d.name === 'epinephrine')?.id ?? null} etco2Unit={sheet.case.etco2Unit} />
+              <button type="button" className="block" onClick={() => setShowTabs(true)}>Show all entry panels</button>
+            </>
+          ) : (
+          <>
+          {resusOpen && <button type="button" className="warn-line block" onClick={() => setShowTabs(false)} data-testid="back-to-resus">Back to the resuscitation view</button>}
           <div className="tabs" role="tablist" aria-label="Entries">
             {TABS.map((t) => (
               <button key={t.id} role="tab" type="button" aria-selected={tab === t.id} className={tab === t.id ? 'tab active' : 'tab'} onClick={() => setTab(t.id)} aria-keyshortcuts={t.key} data-testid={`tab-${t.id}`}>
@@ -188,6 +226,7 @@ export function CaseSheet({ initial, canWrite }: { initial: CaseSheetData; canWr
             {tab === 'markers' && <MarkerPanel events={events} submit={submit} timeZone={tz} disabled={disabled} />}
             {tab === 'recovery' && <RecoveryPanel scores={recovery} submit={submit} timeZone={tz} disabled={disabled} />}
             {tab === 'history' && <HistoryPanel entries={view} submit={submit} timeZone={tz} disabled={disabled} nowMs={nowMs} />}
+            {tab === 'gas' && <GasPanel gaps={gaps} submit={submit} disabled={disabled} startMs={startMs} timeZone={tz} />}
             {tab === 'facts' && <FactsPanel facts={sheet.case} onSaved={refresh} disabled={disabled} />}
             {tab === 'import' && <ImportPanel caseId={sheet.case.id} startMs={startMs} timeZone={tz} disabled={disabled} imports={sheet.imports} />}
           </div>
@@ -195,6 +234,8 @@ export function CaseSheet({ initial, canWrite }: { initial: CaseSheetData; canWr
             <button type="button" className="warn-line block" onClick={() => setTab('vitals')} data-testid="vitals-reminder-side">
               BP/HR reading due — open Readings
             </button>
+          )}
+          </>
           )}
         </aside>
       </div>

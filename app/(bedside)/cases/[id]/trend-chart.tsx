@@ -46,11 +46,13 @@ export function TrendChart(props: {
   etco2Unit: 'mmHg' | 'kPa';
   height?: number;
   testId?: string;
+  /** Horizontal EtCO2 bands (mmHg), e.g. the resuscitation targets. */
+  bands?: { fromMmHg: number; toMmHg: number; colour: string }[];
 }) {
   const host = useRef<HTMLDivElement>(null);
   const plot = useRef<uPlot | null>(null);
-  const overlay = useRef({ episodes: props.episodes, markers: props.markers });
-  overlay.current = { episodes: props.episodes, markers: props.markers };
+  const overlay = useRef({ episodes: props.episodes, markers: props.markers, bands: props.bands ?? [] });
+  overlay.current = { episodes: props.episodes, markers: props.markers, bands: props.bands ?? [] };
 
   const toDisplay = props.etco2Unit === 'kPa' ? (v: number) => Math.round((v / 7.50062) * 100) / 100 : (v: number) => v;
   const channels = ['etco2', 'rr', 'spo2', 'hr'] as const;
@@ -66,8 +68,15 @@ export function TrendChart(props: {
     const fmt = new Intl.DateTimeFormat('en-GB', { timeZone: props.timeZone, hour: '2-digit', minute: '2-digit', hourCycle: 'h23' });
     const draw = (u: uPlot) => {
       const ctx = u.ctx;
-      const { top, height } = u.bbox;
+      const { top, height, left, width } = u.bbox;
       ctx.save();
+      for (const b of overlay.current.bands) {
+        const k = props.etco2Unit === 'kPa' ? 1 / 7.50062 : 1;
+        const y0 = u.valToPos(b.toMmHg * k, 'co2', true);
+        const y1 = u.valToPos(b.fromMmHg * k, 'co2', true);
+        ctx.fillStyle = b.colour;
+        ctx.fillRect(left, Math.min(y0, y1), width, Math.abs(y1 - y0));
+      }
       for (const e of overlay.current.episodes) {
         const x0 = u.valToPos(props.startMs / 1000 + e.start, 'x', true);
         const x1 = u.valToPos(props.startMs / 1000 + e.end, 'x', true);

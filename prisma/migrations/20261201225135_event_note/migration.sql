@@ -1,0 +1,2 @@
+-- AlterTable
+ALTER TABLE "CaseEvent" ADD COLUMN "note" TEXT;
