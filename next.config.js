@@ -1,5 +1,7 @@
 /** @type {import('next').NextConfig} */
 const nextConfig = {
+  // A separate build folder lets two builds (e.g. two engineers' test runs) not collide.
+  distDir: process.env.PLATEAU_NEXT_DIST || '.next',
   reactStrictMode: true,
   poweredByHeader: false,
   // Native and wasm packages stay outside the server bundle and load from node_modules.
@@ -14,7 +16,10 @@ const nextConfig = {
           { key: 'X-Content-Type-Options', value: 'nosniff' },
           { key: 'Referrer-Policy', value: 'same-origin' },
           { key: 'X-Frame-Options', value: 'DENY' },
+          // The full Content-Security-Policy (nonce-based for pages) and HSTS come from proxy.ts
+          // (lib/server/securityHeaders.ts); this baseline also covers static files.
           { key: 'Content-Security-Policy', value: "frame-ancestors 'none'; base-uri 'self'; form-action 'self'; object-src 'none'" },
+          { key: 'Cross-Origin-Opener-Policy', value: 'same-origin' },
         ],
       },
     ];

@@ -113,7 +113,8 @@ export async function setActiveRuleSet(client: PrismaClient, unitId: string, ref
   let done = 0;
   for (const c of cases) {
     await refreshSummary(client, c.id, now, rs);
-    onProgress?.(++done, cases.length);
+    done++;
+    onProgress?.(done, cases.length);
   }
   return { recomputed: done };
 }

@@ -69,7 +69,8 @@ export function readAccounts(dbFile: string): DemoAccount[] {
 
 /** Starts `next start` against a fresh seeded database. Requires `next build` to have run. */
 export async function startApp(opts: { cases?: number; env?: NodeJS.ProcessEnv } = {}): Promise<AppServer> {
-  if (!fs.existsSync(path.join(ROOT, '.next', 'BUILD_ID'))) throw new Error('no production build: run `npm run build` (npm test does it for you)');
+  const dist = process.env.PLATEAU_NEXT_DIST || '.next';
+  if (!fs.existsSync(path.join(ROOT, dist, 'BUILD_ID'))) throw new Error(`no production build in ${dist}: run \`npm run build\` (npm test does it for you)`);
   const { dir, dbFile, env } = makeDatabase({ cases: opts.cases ?? 30 });
   const port = await freePort();
   const fullEnv = { ...env, ...opts.env, PORT: String(port) };

@@ -163,6 +163,19 @@ describe('the bedside record', () => {
     expect(forbidden.status).toBe(422);
   });
 
+  it('stores a blood gas entered in kPa as mmHg (1 kPa = 7.50062 mmHg), and refuses one out of range for its unit', async () => {
+    const c = await nurse();
+    const id = await newCase(c);
+    const ok = await entry(c, id, { type: 'blood_gas', paco2: 6.2, unit: 'kPa', ph: 7.31, sampleType: 'arterial' });
+    expect(ok.status, ok.text).toBe(201);
+    expect(q<{ paco2: number; enteredUnit: string }>('SELECT paco2, enteredUnit FROM BloodGas WHERE caseId = ?', id)).toEqual({ paco2: 46.5, enteredUnit: 'kPa' });
+    const bad = await entry(c, id, { type: 'blood_gas', paco2: 45, unit: 'kPa' });
+    expect(bad.status).toBe(422);
+    expect(bad.json.error).toMatch(/paco2: is out of range for the unit/);
+    const sheet = (await c.get(`/api/v1/cases/${id}/sheet`)).json;
+    expect(sheet.bloodGases).toHaveLength(1);
+  });
+
   it('refuses malformed entries with the field named, and writes nothing', async () => {
     const c = await nurse();
     const id = await newCase(c);
