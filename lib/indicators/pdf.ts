@@ -7,7 +7,7 @@
  * Pure apart from pdfkit: the caller reads the font files and passes their bytes in. It prints
  * only what the (already de-identified) report object holds.
  */
-import PDFDocument from 'pdfkit';
+import { openPdf } from '@/lib/_shared/pdfDocument';
 import type { IndicatorReport, IndicatorResult, IndicatorChart } from './report';
 import { differenceUnit, formatCount, formatNumber, unitLabel } from './format';
 import { formatPeriod } from './period';
@@ -344,28 +344,13 @@ function methodsPage(ctx: Ctx, r: IndicatorReport): void {
  */
 export async function renderReportPdf(report: IndicatorReport, options: RenderReportPdfOptions): Promise<Uint8Array> {
   const stamp = isoDay(report.issue?.issuedOn ?? report.generatedOn);
-  const doc = new PDFDocument({
+  const { doc, finish } = openPdf({
     size: options.pageSize ?? 'A4',
-    margins: { top: MARGIN, bottom: MARGIN, left: MARGIN, right: MARGIN },
-    bufferPages: true,
-    // the embedded TrueType font is the document's first font, so no AFM font is ever loaded
-    font: options.font as unknown as string,
-    info: {
-      Title: `Sedation safety indicators — ${report.period.label} — ${report.scope.label}${report.issue ? ` — version ${report.issue.version}` : ' — draft'}`,
-      Subject: 'Procedural sedation safety indicators (de-identified)',
-      Creator: 'Plateau',
-      Producer: 'Plateau (pdfkit)',
-      CreationDate: stamp,
-      ModDate: stamp,
-    },
-  });
-  doc.registerFont('body', options.font as unknown as string);
-  doc.registerFont('bold', (options.fontBold ?? options.font) as unknown as string);
-  const chunks: Uint8Array[] = [];
-  const done = new Promise<void>((resolve, reject) => {
-    doc.on('data', (c: Uint8Array) => chunks.push(c));
-    doc.on('end', () => resolve());
-    doc.on('error', (e: unknown) => reject(e));
+    margin: MARGIN,
+    font: options.font,
+    fontBold: options.fontBold,
+    info: { Title: `Sedation safety indicators — ${report.period.label} — ${report.scope.label}${report.issue ? ` — version ${report.issue.version}` : ' — draft'}`, Subject: 'Procedural sedation safety indicators (de-identified)' },
+    stamp,
   });
   const ctx: Ctx = { doc, left: MARGIN, width: doc.page.width - 2 * MARGIN, bottom: doc.page.height - MARGIN - FOOTER_H };
 
@@ -399,15 +384,5 @@ export async function renderReportPdf(report: IndicatorReport, options: RenderRe
     body(ctx, 6.5, MUTED).text(`Page ${i - range.start + 1} of ${range.count}`, MARGIN + ctx.width * 0.82, y, { width: ctx.width * 0.18, align: 'right', lineBreak: false });
     doc.page.margins.bottom = bottomMargin;
   }
-  doc.end();
-  await done;
-  let n = 0;
-  for (const c of chunks) n += c.length;
-  const out = new Uint8Array(n);
-  let off = 0;
-  for (const c of chunks) {
-    out.set(c, off);
-    off += c.length;
-  }
-  return out;
+  return finish();
 }

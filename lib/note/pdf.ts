@@ -1,4 +1,4 @@
-import PDFDocument from 'pdfkit';
+import { openPdf } from '@/lib/_shared/pdfDocument';
 import { formatClock } from '@/lib/_shared/time';
 import {
   formatBmi,
@@ -370,29 +370,13 @@ function episodeRow(e: EpisodeLine): string[] {
  */
 export async function renderNotePdf(note: CaseNote, chart: ChartData, options: RenderNotePdfOptions): Promise<Uint8Array> {
   const stamp = note.signatures.length > 0 ? new Date(note.signatures[note.signatures.length - 1].at) : new Date(note.caseStartIso);
-  const doc = new PDFDocument({
+  const { doc, finish } = openPdf({
     size: options.pageSize,
-    margins: { top: MARGIN, bottom: MARGIN, left: MARGIN, right: MARGIN },
-    bufferPages: true,
-    // the embedded TrueType font is the document's first font, so no AFM font is ever loaded
-    font: options.font as unknown as string,
-    info: {
-      Title: `Sedation note — ${note.patientAndRisk.name} — version ${note.version}`,
-      Author: note.unitName,
-      Subject: 'Procedural sedation case note',
-      Creator: 'Plateau',
-      Producer: 'Plateau (pdfkit)',
-      CreationDate: stamp,
-      ModDate: stamp,
-    },
-  });
-  doc.registerFont('body', options.font as unknown as string);
-  doc.registerFont('bold', (options.fontBold ?? options.font) as unknown as string);
-  const chunks: Uint8Array[] = [];
-  const done = new Promise<void>((resolve, reject) => {
-    doc.on('data', (c: Uint8Array) => chunks.push(c));
-    doc.on('end', () => resolve());
-    doc.on('error', (e: unknown) => reject(e));
+    margin: MARGIN,
+    font: options.font,
+    fontBold: options.fontBold,
+    info: { Title: `Sedation note — ${note.patientAndRisk.name} — version ${note.version}`, Subject: 'Procedural sedation case note', Author: note.unitName },
+    stamp,
   });
 
   const ctx: Ctx = { doc, note, left: MARGIN, width: doc.page.width - 2 * MARGIN, bottom: doc.page.height - MARGIN - FOOTER_H };
@@ -543,15 +527,5 @@ export async function renderNotePdf(note: CaseNote, chart: ChartData, options: R
     body(ctx, SMALL, MUTED).text(`Page ${i - range.start + 1} of ${range.count}`, MARGIN + ctx.width * 0.7, y, { width: ctx.width * 0.3, align: 'right', lineBreak: false });
     doc.page.margins.bottom = bottomMargin;
   }
-  doc.end();
-  await done;
-  let n = 0;
-  for (const c of chunks) n += c.length;
-  const out = new Uint8Array(n);
-  let off = 0;
-  for (const c of chunks) {
-    out.set(c, off);
-    off += c.length;
-  }
-  return out;
+  return finish();
 }

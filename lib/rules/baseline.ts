@@ -1,3 +1,4 @@
+import { lowerBound } from '@/lib/_shared/sorted';
 import type { CaseRecord, DoseEntry } from '@/lib/domain/caseRecord';
 import { isSedativeDrug } from '@/lib/domain/drug';
 import type { BaselineChannel } from '@/lib/domain/ruleSet';
@@ -31,17 +32,6 @@ function firstDoseTime(doses: readonly DoseEntry[]): number | null {
   return first;
 }
 
-/** First index with t[i] ≥ x. */
-function lowerBound(t: number[], x: number): number {
-  let lo = 0;
-  let hi = t.length;
-  while (lo < hi) {
-    const mid = (lo + hi) >> 1;
-    if (t[mid] < x) lo = mid + 1;
-    else hi = mid;
-  }
-  return lo;
-}
 
 /** Median of the observed values with from ≤ t < to, or null when fewer than 3 lie there. */
 function windowMedian(trace: ChannelTrace, from: number, to: number): number | null {

@@ -1,3 +1,4 @@
+import { medianOf } from '@/lib/_shared/sorted';
 import type { CaseRecord } from '@/lib/domain/caseRecord';
 import { MMHG_PER_KPA } from '@/lib/domain/channel';
 
@@ -49,7 +50,7 @@ export function co2Gaps(record: CaseRecord, gases: readonly BloodGasInput[], opt
     .map((g) => {
       const near: number[] = [];
       if (co2) for (let i = 0; i < co2.t.length; i++) if (co2.t[i] >= g.t - half && co2.t[i] <= g.t + half) near.push(co2.v[i] * factor);
-      const et = near.length ? round1(median(near)) : null;
+      const et = near.length ? round1(medianOf(near)) : null;
       const gap = et === null ? null : round1(g.paco2MmHg - et);
       const change = gap !== null && previous !== null ? round1(gap - previous) : null;
       if (gap !== null) previous = gap;
@@ -71,11 +72,6 @@ export function paco2ToMmHg(value: number, unit: 'mmHg' | 'kPa'): number {
   return unit === 'kPa' ? round1(value * MMHG_PER_KPA) : value;
 }
 
-function median(xs: number[]): number {
-  const s = [...xs].sort((a, b) => a - b);
-  const n = s.length;
-  return n % 2 ? s[(n - 1) / 2] : (s[n / 2 - 1] + s[n / 2]) / 2;
-}
 
 function round1(x: number): number {
   return Math.round(x * 10) / 10;

@@ -1,3 +1,4 @@
+import { lowerBound, medianOf } from '@/lib/_shared/sorted';
 import { z } from 'zod';
 import type { CaseRecord } from '@/lib/domain/caseRecord';
 import { MMHG_PER_KPA } from '@/lib/domain/channel';
@@ -135,7 +136,7 @@ export function analyzeResuscitation(record: CaseRecord, rules: ResuscitationRul
   let bucket: number[] = [];
   let bucketStart = periods[0].start;
   const flush = (end: number) => {
-    const m = bucket.length ? median(bucket) : null;
+    const m = bucket.length ? medianOf(bucket) : null;
     minutes.push({ minute, start: bucketStart, end, medianMmHg: m === null ? null : round1(m), samples: bucket.length, band: band(m, bucket.length, rules) });
     minute++;
     bucket = [];
@@ -189,8 +190,8 @@ export function analyzeResuscitation(record: CaseRecord, rules: ResuscitationRul
       const before = window(t, v, Math.max(p.start, ti - rules.rosc.beforeS), ti);
       const after = window(t, v, ti, ti + rules.rosc.sustainS);
       if (before.length < 5 || after.length < 5) continue;
-      const b = median(before);
-      const a = median(after);
+      const b = medianOf(before);
+      const a = medianOf(after);
       // Sustained: the whole next window stays above the old level plus the rise, bar the odd sample.
       const above = after.filter((x) => x >= b + rules.rosc.riseMmHg).length / after.length;
       if (a - b >= rules.rosc.riseMmHg - 1e-9 && above >= 0.8) {
@@ -224,22 +225,7 @@ function window(t: number[], v: number[], from: number, to: number): number[] {
   return out;
 }
 
-function lowerBound(t: number[], x: number): number {
-  let lo = 0;
-  let hi = t.length;
-  while (lo < hi) {
-    const mid = (lo + hi) >> 1;
-    if (t[mid] < x) lo = mid + 1;
-    else hi = mid;
-  }
-  return lo;
-}
 
-function median(xs: number[]): number {
-  const s = [...xs].sort((a, b) => a - b);
-  const n = s.length;
-  return n % 2 ? s[(n - 1) / 2] : (s[n / 2 - 1] + s[n / 2]) / 2;
-}
 
 function round1(x: number): number {
   return Math.round(x * 10) / 10;
