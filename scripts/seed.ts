@@ -14,6 +14,8 @@ import { databaseFile, openRawDatabase } from '../lib/db/sqlite';
 import { isEmpty, writeSeed } from '../lib/db/seed';
 import { recomputeAllSummaries } from '../lib/db/summaries';
 import { openDb } from '../lib/db/client';
+import { importWaveformCsv } from '../lib/db/waveform';
+import { generateCapnogram } from '../lib/capnogram';
 
 const ROLE_MAP: Record<string, string> = { nurse: 'nurse', lead: 'lead', safety_officer: 'safety', admin: 'admin' };
 
@@ -47,12 +49,38 @@ async function main() {
   });
   raw.close();
   const client = openDb(file);
+  const waveCase = await seedWaveform(client, now);
   const summarised = await recomputeAllSummaries(client, now);
   await client.$disconnect();
   fs.writeFileSync(path.join(path.dirname(file), 'demo-accounts.json'), JSON.stringify(accounts, null, 2) + '\n', { mode: 0o600 });
+  if (waveCase) console.log(`raw CO2 waveform (50 Hz, 10 min) stored for case ${waveCase}`);
   console.log(`seeded ${file}: ${counts.cases} cases, ${counts.samples.toLocaleString('en-GB')} samples, ${summarised} summaries in ${((performance.now() - t0) / 1000).toFixed(1)} s`);
   void randomUUID;
 }
+/**
+ * One of today's open cases gets ten minutes of raw CO2 at 50 Hz from the synthetic capnogram
+ * generator — normal breaths, a slow obstructive upstroke, a 25 s pause, then rebreathing — so
+ * the waveform viewer has something to show.
+ */
+async function seedWaveform(client: ReturnType<typeof openDb>, now: Date): Promise<string | null> {
+  const c = await client.case.findFirst({ where: { status: { not: 'signed' } }, orderBy: { startAt: 'asc' }, select: { id: true } });
+  if (!c) return null;
+  const rateHz = 50;
+  const { segment } = generateCapnogram({
+    rateHz,
+    seed: 7,
+    noiseSd: 0.4,
+    drift: { amp: 1, periodS: 120 },
+    cardiogenic: { amp: 1.5, hrPerMin: 78 },
+    jitter: { period: 0.06, etco2: 0.8 },
+    stretches: [{ durationS: 180 }, { durationS: 120, riseTimeS: 0.9 }, { durationS: 25, flat: true }, { durationS: 120 }, { durationS: 155, inspired: 5 }],
+  });
+  const lines = ['time_s,co2_mmHg'];
+  for (let i = 0; i < segment.v.length; i++) lines.push(`${(i / rateHz).toFixed(2)},${Number(segment.v[i]).toFixed(2)}`);
+  await importWaveformCsv(client, { caseId: c.id, fileName: 'demo-capnogram.csv', text: lines.join('\n'), rateHz, unit: 'mmHg', clockOffsetS: 60 }, { id: 'user-nurse.ada', role: 'nurse', origin: 'demo seed' }, now);
+  return c.id;
+}
+
 main().catch((e) => {
   console.error(e);
   process.exit(1);

@@ -4,6 +4,7 @@ import type { Channel } from '@/lib/domain/channel';
 import type { DoseUnit, DrugClass } from '@/lib/domain/drug';
 import type { InterventionKind } from '@/lib/domain/intervention';
 import { ageInYears } from '@/lib/_shared/time';
+import { waveformSeriesForCase } from './waveform';
 
 const UNIT_OF: Record<string, SampleSeries['unit']> = { etco2: 'mmHg', inspco2: 'mmHg', spo2: '%', rr: '/min', hr: '/min' };
 
@@ -58,6 +59,10 @@ export async function loadCaseRecord(client: PrismaClient, caseId: string): Prom
     }
   }
   series.push(...Object.values(manual));
+  // A case with only a raw CO2 waveform still gets episodes: its per-breath trends stand in.
+  if (!series.some((x) => x.channel === 'etco2' && x.source === 'monitor')) {
+    for (const w of await waveformSeriesForCase(client, caseId)) if (!series.some((x) => x.channel === w.channel && x.source === 'monitor')) series.push(w);
+  }
   return {
     case: {
       start: c.startAt.toISOString(),

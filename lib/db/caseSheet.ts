@@ -48,6 +48,8 @@ export interface CaseSheetData {
   /** Monitor samples after `afterSampleId`, seconds from startAt, per channel (EtCO2 in mmHg). */
   samples: { lastId: number; channels: Record<string, { t: number[]; v: number[] }> };
   imports: { id: string; fileName: string; samples: number; createdAt: string }[];
+  /** Raw CO2 waveform files stored for the case (the viewer is /cases/[id]/waveform). */
+  waveformImports: number;
   analysis: Analysis | null;
 }
 
@@ -70,6 +72,7 @@ export async function loadCaseSheet(client: PrismaClient, caseId: string, afterS
   });
   if (!c) return null;
   const gases = await client.bloodGas.findMany({ where: { caseId }, orderBy: { at: 'asc' } });
+  const waveformImports = await client.waveformImport.count({ where: { caseId } });
   const [drugs, users, samples, imports] = await Promise.all([
     client.drug.findMany({ where: { unitId: c.unitId, active: true }, orderBy: [{ sortOrder: 'asc' }, { name: 'asc' }] }),
     client.user.findMany({ where: { unitId: c.unitId }, select: { id: true, displayName: true } }),
@@ -139,5 +142,6 @@ export async function loadCaseSheet(client: PrismaClient, caseId: string, afterS
     samples: { lastId, channels },
     imports: imports.map((i) => ({ id: i.id, fileName: i.fileName, samples: i.samples, createdAt: i.createdAt.toISOString() })),
     analysis,
+    waveformImports,
   };
 }

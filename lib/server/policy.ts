@@ -12,6 +12,7 @@ export const ACCESS = {
   '/cases/new': ['nurse', 'lead'],
   '/cases/[id]': ['nurse', 'lead', 'admin'],
   '/cases/[id]/note': ['nurse', 'lead', 'admin'],
+  '/cases/[id]/waveform': ['nurse', 'lead', 'admin'],
   '/reports': ['safety', 'lead', 'admin'],
   '/admin': ['admin'],
   // API: reading
@@ -22,6 +23,7 @@ export const ACCESS = {
   'GET /api/v1/cases/[id]/note': ['nurse', 'lead', 'admin'],
   'GET /api/v1/cases/[id]/note/pdf': ['nurse', 'lead', 'admin'],
   'GET /api/v1/cases/[id]/fhir': ['lead', 'admin'],
+  'GET /api/v1/cases/[id]/waveform': ['nurse', 'lead', 'admin'],
   'GET /api/v1/me': ['nurse', 'lead', 'safety', 'admin'],
   // API: writing case data
   'POST /api/v1/cases': ['nurse', 'lead'],
@@ -33,6 +35,7 @@ export const ACCESS = {
   'POST /api/v1/cases/[id]/note/sign': ['nurse', 'lead'],
   'POST /api/v1/cases/[id]/note/amend': ['nurse', 'lead'],
   'POST /api/v1/cases/[id]/note/cosign': ['lead'],
+  'POST /api/v1/cases/[id]/waveform': ['nurse', 'lead'],
   // review (monthly review for the lead) — entries added by the review work go here
   '/review': ['lead'],
   '/review/cases': ['lead'],
@@ -61,11 +64,16 @@ export const ACCESS = {
   // API: administration
   'GET /api/v1/admin/users': ['admin'],
   'POST /api/v1/admin/users': ['admin'],
+  '/audit': ['lead', 'admin'],
+  'GET /api/v1/audit': ['lead', 'admin'],
   'POST /api/v1/admin/rule-set': ['admin', 'lead'],
+  'GET /api/v1/hl7-inbox': ['nurse', 'lead'],
+  'POST /api/v1/hl7-inbox/attach': ['nurse', 'lead'],
+  'GET /api/v1/cases/[id]/live': ['nurse', 'lead', 'admin'],
 } as const satisfies Record<string, readonly Role[]>;
 
 /** Routes reachable without a session. */
-export const PUBLIC_ROUTES = ['/sign-in', 'POST /sign-out', 'GET /api/health', 'POST /api/v1/session', 'DELETE /api/v1/session'] as const;
+export const PUBLIC_ROUTES = ['/sign-in', 'POST /sign-out', 'GET /api/health', 'POST /api/v1/session', 'DELETE /api/v1/session', 'POST /api/v1/hl7'] as const;
 
 export type AccessKey = keyof typeof ACCESS;
 

@@ -14,3 +14,10 @@ async function runAll(): Promise<void> {
 }
 
 void runAll();
+import { main as hl7 } from './hl7';
+BENCHES.push(['hl7', hl7]);
+import { main as capnogram } from './capnogram';
+BENCHES.push(['capnogram', capnogram]);
+
+import { main as load } from './load';
+BENCHES.push(['load', async () => void (await load())]);

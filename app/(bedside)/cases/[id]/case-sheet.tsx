@@ -147,6 +147,7 @@ export function CaseSheet({ initial, canWrite }: { initial: CaseSheetData; canWr
         <div className="sheet-state">
           <span className={`status status-${sheet.case.status}`} data-testid="case-status">{STATUS_LABEL[sheet.case.status] ?? sheet.case.status}</span>
           <a className="button" href={`/cases/${sheet.case.id}/note`} data-testid="open-note">{signed ? 'Case note' : 'Case note · sign'}</a>
+          <a className="button" href={`/cases/${sheet.case.id}/waveform`} data-testid="open-waveform">{sheet.waveformImports ? 'CO2 waveform' : 'CO2 waveform · import'}</a>
           <span className={waiting ? 'save-state waiting' : 'save-state saved'} role="status" aria-live="polite" data-testid="save-state">
             {waiting ? `${waiting} ${waiting === 1 ? 'entry waits' : 'entries wait'} to be saved${online ? '' : ' (offline)'}` : 'All saved'}
           </span>
@@ -201,7 +202,7 @@ export function CaseSheet({ initial, canWrite }: { initial: CaseSheetData; canWr
               bands={resus ? [{ fromMmHg: PLATEAU_RESUSCITATION_V1.targets.minimumMmHg, toMmHg: PLATEAU_RESUSCITATION_V1.targets.goodMmHg, colour: 'rgba(232,180,107,0.12)' }, { fromMmHg: PLATEAU_RESUSCITATION_V1.targets.goodMmHg, toMmHg: 60, colour: 'rgba(143,207,143,0.08)' }] : []}
             />
           </div>
-          <EpisodePanel analysis={sheet.analysis} startMs={startMs} timeZone={tz} />
+          <EpisodePanel analysis={sheet.analysis} startMs={startMs} timeZone={tz} waveformHref={sheet.waveformImports ? `/cases/${sheet.case.id}/waveform` : null} />
         </div>
         <aside className="sheet-side panel">
           {resusOpen && !showTabs ? (

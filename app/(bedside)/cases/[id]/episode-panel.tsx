@@ -11,7 +11,7 @@ function dur(s: number): string {
 }
 
 /** Each episode the rules found: rule, start, duration, extreme, response and level, live. */
-export function EpisodePanel({ analysis, startMs, timeZone }: { analysis: Analysis | null; startMs: number; timeZone: string }) {
+export function EpisodePanel({ analysis, startMs, timeZone, waveformHref = null }: { analysis: Analysis | null; startMs: number; timeZone: string; waveformHref?: string | null }) {
   if (!analysis) return <p className="muted">Analysis not available yet.</p>;
   const eps = analysis.episodes;
   return (
@@ -45,7 +45,15 @@ export function EpisodePanel({ analysis, startMs, timeZone }: { analysis: Analys
                     </p>
                   )}
                 </td>
-                <td>{clock(startMs + e.start * 1000, timeZone, true)}</td>
+                <td>
+                  {clock(startMs + e.start * 1000, timeZone, true)}
+                  {waveformHref && (
+                    <>
+                      {' '}
+                      <a href={`${waveformHref}?at=${Math.round(e.start)}`} className="small">waveform</a>
+                    </>
+                  )}
+                </td>
                 <td>{dur(e.durationS)}</td>
                 <td>{e.extremes.map((x) => `${x.kind === 'lowest' ? 'low' : 'high'} ${x.channel === 'etco2' ? 'EtCO2' : x.channel === 'spo2' ? 'SpO2' : x.channel.toUpperCase()} ${x.value} ${x.unit}`).join(', ')}</td>
                 <td>{e.responseS === null ? <span className="muted">none recorded</span> : `${Math.round(e.responseS)} s · ${e.interventions.map((i) => INTERVENTION_LABEL[i.kind]).join(', ')}`}</td>
