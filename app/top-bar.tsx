@@ -6,6 +6,7 @@ const LINKS: { href: string; label: string; roles: string[] }[] = [
   { href: '/cases', label: 'Cases today', roles: ['nurse', 'lead', 'admin'] },
   { href: '/review', label: 'Monthly review', roles: ['lead'] },
   { href: '/reports', label: 'Safety indicators', roles: ['safety', 'lead', 'admin'] },
+  { href: '/audit', label: 'Audit trail', roles: ['lead', 'admin'] },
   { href: '/admin', label: 'Administration', roles: ['admin'] },
 ];
 

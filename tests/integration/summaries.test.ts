@@ -38,6 +38,8 @@ describe('stored per-case summaries', () => {
     const before = all<{ caseLevel: string; inputHash: string }>('SELECT caseLevel, inputHash FROM CaseSummary WHERE caseId = ?', row.caseId)[0];
     const r = await c.post(`/api/v1/cases/${row.caseId}/entries`, { id: randomUUID(), type: 'intervention', kind: 'bag_mask', at: new Date(start + 60_000).toISOString() });
     expect(r.status).toBe(201);
+    // Whoever reads the case next (here the sheet) finds the summary brought up to date.
+    await c.get(`/api/v1/cases/${row.caseId}/sheet`);
     const after = all<{ caseLevel: string; inputHash: string }>('SELECT caseLevel, inputHash FROM CaseSummary WHERE caseId = ?', row.caseId)[0];
     expect(after.inputHash).not.toBe(before.inputHash);
     // rules.md §6: the case level is the highest level of all interventions recorded.

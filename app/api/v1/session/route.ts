@@ -10,6 +10,10 @@ export async function POST(req: Request) {
     const input = await parseJson(req, SignInInput);
     const origin = await requestOrigin();
     const r = await checkCredentials(input.username, input.password, origin);
+    if (!r.ok && r.lockedUntil) {
+      const wait = Math.max(1, Math.ceil((r.lockedUntil.getTime() - Date.now()) / 1000));
+      return Response.json({ error: r.error }, { status: 429, headers: { 'retry-after': String(wait) } });
+    }
     if (!r.ok) return Response.json({ error: r.error }, { status: 401 });
     await startSession(r.userId, origin);
     return Response.json({ ok: true, role: r.role });

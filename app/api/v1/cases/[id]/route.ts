@@ -3,7 +3,7 @@ import { CaseEditError, CaseEditInput, parseChanges } from '@/lib/domain/caseEdi
 import { checkOrigin, errorResponse, HttpError, parseJson } from '@/lib/server/http';
 import { editCaseFacts } from '@/lib/db/entries';
 import { ConflictError, NotFoundError } from '@/lib/db/cases';
-import { refreshSummary } from '@/lib/db/summaries';
+import { scheduleSummary } from '@/lib/server/summaryQueue';
 import { now } from '@/lib/server/clock';
 import { requestOrigin } from '@/lib/server/session';
 import { caseFacts } from '@/lib/db/cases';
@@ -28,7 +28,7 @@ export async function PATCH(req: Request, ctx: { params: Promise<{ id: string }>
     const input = await parseJson(req, CaseEditInput);
     const t = now();
     const r = await editCaseFacts(db(), id, parseChanges(input.changes), { id: user.id, role: user.role, origin: await requestOrigin() }, t);
-    await refreshSummary(db(), id, t).catch(() => {});
+    scheduleSummary(id);
     return Response.json(r);
   } catch (e) {
     if (e instanceof CaseEditError) return errorResponse(new HttpError(422, e.message));

@@ -3,7 +3,7 @@ import { authorizeApi } from '@/lib/server/access';
 import { checkOrigin, errorResponse, HttpError, parseJson } from '@/lib/server/http';
 import { recordEntry } from '@/lib/db/entries';
 import { ConflictError, NotFoundError } from '@/lib/db/cases';
-import { refreshSummary } from '@/lib/db/summaries';
+import { scheduleSummary } from '@/lib/server/summaryQueue';
 import { db } from '@/lib/db/client';
 import { now } from '@/lib/server/clock';
 import { requestOrigin } from '@/lib/server/session';
@@ -22,8 +22,8 @@ export async function POST(req: Request, ctx: { params: Promise<{ id: string }> 
     const entry = parseEntry(await parseJson(req, z.unknown()));
     const t = now();
     const r = await recordEntry(db(), id, entry, { id: user.id, role: user.role, origin: await requestOrigin() }, t);
-    // The summary is derived data: recompute it now so the episode panel and reports agree.
-    if (r.created) await refreshSummary(db(), id, t).catch(() => {});
+    // The summary is derived data: recompute it soon (readers refresh a stale one themselves).
+    if (r.created) scheduleSummary(id);
     return Response.json(r, { status: r.created ? 201 : 200 });
   } catch (e) {
     if (e instanceof NotFoundError) return errorResponse(new HttpError(404, e.message));

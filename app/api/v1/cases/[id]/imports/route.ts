@@ -4,7 +4,7 @@ import { NotFoundError, ConflictError } from '@/lib/db/cases';
 import { CsvRejectedError, DuplicateImportError, importMonitorCsv } from '@/lib/db/sampleImport';
 import { readCsvUpload, UploadError } from '@/lib/ingest/monitorCsv';
 import { db } from '@/lib/db/client';
-import { refreshSummary } from '@/lib/db/summaries';
+import { scheduleSummary } from '@/lib/server/summaryQueue';
 import { now } from '@/lib/server/clock';
 import { requestOrigin } from '@/lib/server/session';
 
@@ -24,8 +24,8 @@ export async function POST(req: Request, ctx: { params: Promise<{ id: string }> 
     if (!upload.mapping) throw new HttpError(422, 'mapping: is required; preview the file and send the mapping it shows');
     const t = now();
     const r = await importMonitorCsv(db(), { caseId: id, fileName: upload.fileName, bytes: upload.bytes, text: upload.text, mapping: upload.mapping }, { id: user.id, role: user.role, origin: await requestOrigin() }, t);
-    // New samples change the analysis: recompute the stored summary so the episode panel agrees.
-    await refreshSummary(db(), id, t).catch(() => {});
+    // New samples change the analysis: recompute the stored summary soon (readers refresh it too).
+    scheduleSummary(id);
     return Response.json({ ok: true, ...r }, { status: 201 });
   } catch (e) {
     if (e instanceof UploadError) return errorResponse(new HttpError(e.status, e.message));
