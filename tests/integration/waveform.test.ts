@@ -47,8 +47,10 @@ describe('raw CO2 waveform: import, storage and the viewer', () => {
 
   it('first the nurse imports a 10-minute CSV into an open case; it is stored as 10 s binary chunks aligned to the case clock', async () => {
     const c = await signedIn('nurse');
-    const list = await c.get('/api/v1/cases');
-    caseId = list.json.cases.find((x: { status: string }) => x.status !== 'signed').id;
+    // A new case of today, so nothing else (the demo seeds a waveform on one open case) overlaps.
+    const opened = await c.post('/api/v1/cases', { patient: { mrn: 'WAVE-0001', familyName: 'Waveform', givenName: 'Wil', birthDate: '1970-06-01', sex: 'male' }, procedureType: 'bronchoscopy', roomId: 'room-4', plannedDepth: 'moderate' });
+    expect(opened.status, opened.text).toBe(201);
+    caseId = opened.json.id;
     const before = query<{ n: number }>('SELECT COUNT(*) AS n FROM AuditEntry').n;
     const r = await c.post(`/api/v1/cases/${caseId}/waveform`, { text, fileName: 'capno.csv', rateHz: 100, unit: 'mmHg', clockOffsetS: 120 });
     expect(r.status, r.text).toBe(201);

@@ -3,6 +3,7 @@ import { useEffect, useMemo, useState } from 'react';
 import type { CaseSheetData } from '@/lib/db/caseSheet';
 import { doseCaution } from '@/lib/domain/doseTotals';
 import { drugTotals } from '@/lib/note/drugTotals';
+import { formatDoseAmount, formatPerKg } from '@/lib/note/format';
 import type { DoseUnit, DrugClass } from '@/lib/domain/drug';
 import type { Submit } from './shared';
 
@@ -109,8 +110,8 @@ export function DosePanel({ sheet, doses, submit, disabled }: { sheet: CaseSheet
           {totals.map((t) => (
             <tr key={`${t.drug}-${t.unit}`}>
               <td>{t.label}</td>
-              <td>{t.total} {t.unit}</td>
-              <td>{t.perKg === null ? <span className="muted">{sheet.case.weightKg ? '–' : 'no weight'}</span> : `${t.perKg.value} ${t.perKg.unit}`}</td>
+              <td>{formatDoseAmount(t.total, t.unit)}</td>
+              <td>{t.perKg === null ? <span className="muted">{sheet.case.weightKg ? '–' : 'no weight'}</span> : formatPerKg(t.perKg.value, t.perKg.unit)}</td>
               <td>{t.doseCount}</td>
             </tr>
           ))}

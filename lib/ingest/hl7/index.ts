@@ -1,0 +1,4 @@
+export * from './parseHl7';
+export * from './codes';
+export * from './buildAck';
+export * from './buildOru';
