@@ -28,7 +28,8 @@ export function HistoryPanel({ entries, submit, timeZone, disabled, nowMs }: { e
     // Same calendar day as the entry, in the unit's zone: shift the entry by the clock difference.
     const cur = new Intl.DateTimeFormat('en-GB', { timeZone, hour: '2-digit', minute: '2-digit', second: '2-digit', hourCycle: 'h23' }).format(new Date(target.atMs)).split(':').map(Number);
     const deltaS = (Number(m[1]) - cur[0]) * 3600 + (Number(m[2]) - cur[1]) * 60 + (Number(m[3] ?? 0) - cur[2]);
-    return doRetime(target.atMs + deltaS * 1000);
+    // The typed time means that second exactly: drop the entry's milliseconds.
+    return doRetime(target.atMs - (target.atMs % 1000) + deltaS * 1000);
   };
   const close = () => {
     setEditing(null);
