@@ -27,3 +27,16 @@ export function ageInYears(birthDate: string, at: Date): number | null {
   if (at.getUTCMonth() + 1 < mo || (at.getUTCMonth() + 1 === mo && at.getUTCDate() < d)) age--;
   return age;
 }
+
+/**
+ * The instant a typed wall-clock time (HH:MM[:SS], in the unit's zone) means for an entry made at
+ * `atMs`: its occurrence nearest the entry, across midnight too, on that exact second.
+ * @example atClockTimeNear(Date.parse('2026-12-01T23:43:10Z'), 0, 8, 5, 'Europe/Dublin') //=> Date.parse('2026-12-02T00:08:05Z')
+ */
+export function atClockTimeNear(atMs: number, hour: number, minute: number, second: number, timeZone: string): number {
+  const cur = new Intl.DateTimeFormat('en-GB', { timeZone, hour: '2-digit', minute: '2-digit', second: '2-digit', hourCycle: 'h23' }).format(new Date(atMs)).split(':').map(Number);
+  let deltaS = (hour - cur[0]) * 3600 + (minute - cur[1]) * 60 + (second - cur[2]);
+  if (deltaS > 43_200) deltaS -= 86_400;
+  if (deltaS < -43_200) deltaS += 86_400;
+  return atMs - (((atMs % 1000) + 1000) % 1000) + deltaS * 1000;
+}

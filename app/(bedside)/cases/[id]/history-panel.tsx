@@ -2,6 +2,7 @@
 import { useState } from 'react';
 import type { Submit, ViewEntry } from './shared';
 import { clock } from './shared';
+import { atClockTimeNear } from '@/lib/_shared/time';
 
 /** Every entry with its history; any entry can be voided with a reason or re-timed. */
 export function HistoryPanel({ entries, submit, timeZone, disabled, nowMs }: { entries: ViewEntry[]; submit: Submit; timeZone: string; disabled: boolean; nowMs: number }) {
@@ -25,11 +26,7 @@ export function HistoryPanel({ entries, submit, timeZone, disabled, nowMs }: { e
   const retimeTyped = () => {
     const m = /^(\d{1,2}):(\d{2})(?::(\d{2}))?$/.exec(time.trim());
     if (!m || !target) return setError('Type the time as HH:MM or HH:MM:SS.');
-    // Same calendar day as the entry, in the unit's zone: shift the entry by the clock difference.
-    const cur = new Intl.DateTimeFormat('en-GB', { timeZone, hour: '2-digit', minute: '2-digit', second: '2-digit', hourCycle: 'h23' }).format(new Date(target.atMs)).split(':').map(Number);
-    const deltaS = (Number(m[1]) - cur[0]) * 3600 + (Number(m[2]) - cur[1]) * 60 + (Number(m[3] ?? 0) - cur[2]);
-    // The typed time means that second exactly: drop the entry's milliseconds.
-    return doRetime(target.atMs - (target.atMs % 1000) + deltaS * 1000);
+    return doRetime(atClockTimeNear(target.atMs, Number(m[1]), Number(m[2]), Number(m[3] ?? 0), timeZone));
   };
   const close = () => {
     setEditing(null);
