@@ -5,6 +5,7 @@ import type { DoseUnit, DrugClass } from '@/lib/domain/drug';
 import type { InterventionKind } from '@/lib/domain/intervention';
 import { ageInYears } from '@/lib/_shared/time';
 import { waveformSeriesForCase } from './waveform';
+import { rawFor } from './rawReader';
 
 const UNIT_OF: Record<string, SampleSeries['unit']> = { etco2: 'mmHg', inspco2: 'mmHg', spo2: '%', rr: '/min', hr: '/min' };
 
@@ -26,11 +27,9 @@ export async function loadCaseRecord(client: PrismaClient, caseId: string): Prom
   if (!c) return null;
   const startMs = c.startAt.getTime();
   const sec = (d: Date) => (d.getTime() - startMs) / 1000;
-  const rows = await client.sample.findMany({
-    where: { caseId },
-    orderBy: [{ channel: 'asc' }, { source: 'asc' }, { atMs: 'asc' }],
-    select: { channel: true, atMs: true, value: true, source: true, probeOff: true },
-  });
+  // Samples are the bulk of a case (3,600 a channel an hour): read them raw, in index order.
+  const raw = await rawFor(client);
+  const rows = (raw.prepare('SELECT channel, atMs, value, source, probeOff FROM Sample WHERE caseId = ? ORDER BY channel, source, atMs').all(caseId) as { channel: string; atMs: number; value: number; source: string; probeOff: number }[]).map((r) => ({ ...r, probeOff: r.probeOff === 1 }));
   const series: SampleSeries[] = [];
   let cur: SampleSeries | null = null;
   for (const r of rows) {

@@ -1,5 +1,6 @@
 import type { PrismaClient } from './generated/client';
 import { refreshSummary } from './summaries';
+import { rawFor } from './rawReader';
 import type { Analysis } from '@/lib/domain/episode';
 
 export interface SheetEntryBase {
@@ -76,7 +77,9 @@ export async function loadCaseSheet(client: PrismaClient, caseId: string, afterS
   const [drugs, users, samples, imports] = await Promise.all([
     client.drug.findMany({ where: { unitId: c.unitId, active: true }, orderBy: [{ sortOrder: 'asc' }, { name: 'asc' }] }),
     client.user.findMany({ where: { unitId: c.unitId }, select: { id: true, displayName: true } }),
-    client.sample.findMany({ where: { caseId, id: { gt: afterSampleId }, source: 'monitor' }, orderBy: [{ atMs: 'asc' }], select: { id: true, channel: true, atMs: true, value: true, probeOff: true } }),
+    rawFor(client).then((raw) =>
+      (raw.prepare("SELECT id, channel, atMs, value, probeOff FROM Sample WHERE caseId = ? AND id > ? AND source = 'monitor' ORDER BY atMs").all(caseId, afterSampleId) as { id: number; channel: string; atMs: number; value: number; probeOff: number }[]).map((r) => ({ ...r, probeOff: r.probeOff === 1 })),
+    ),
     client.sampleImport.findMany({ where: { caseId }, orderBy: { createdAt: 'asc' } }),
   ]);
   const names = new Map(users.map((u) => [u.id, u.displayName]));
