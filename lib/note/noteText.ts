@@ -1,4 +1,4 @@
-import type { AldreteItem, CaseNote, EpisodeLine, InterventionLine, TimedValue } from './types';
+import type { AldreteItem, CaseNote, EpisodeLine, InterventionLine, TimedValue, TimePoint } from './types';
 import {
   formatBmi,
   formatChannelValue,
@@ -29,6 +29,19 @@ const SEDATION_FROM = {
   procedure_end: 'procedure end',
   end_of_monitoring: 'end of monitoring',
 } as const;
+
+/** The case's time markers in the order the note and the PDF list them. */
+export function timeRows(t: CaseNote['times']): [string, TimePoint | null][] {
+  return [
+    ['Case start', t.caseStart],
+    ['Sedation start', t.sedationStart],
+    ['Procedure start', t.procedureStart],
+    ['Procedure end', t.procedureEnd],
+    ['Recovery start', t.recoveryStart],
+    ['Sedation end', t.sedationEnd],
+    ['Discharge', t.discharge],
+  ];
+}
 
 function intervention(i: InterventionLine): string {
   return `${i.label} ${i.at.clock} (${i.level})${i.note !== undefined ? ` — ${i.note}` : ''}`;
@@ -121,16 +134,7 @@ export function renderNoteText(note: Omit<CaseNote, 'text'>): string {
 
   section('Times');
   const t = note.times;
-  const timeLines: [string, typeof t.caseStart | null][] = [
-    ['Case start', t.caseStart],
-    ['Sedation start', t.sedationStart],
-    ['Procedure start', t.procedureStart],
-    ['Procedure end', t.procedureEnd],
-    ['Recovery start', t.recoveryStart],
-    ['Sedation end', t.sedationEnd],
-    ['Discharge', t.discharge],
-  ];
-  for (const [label, tp] of timeLines) if (tp !== null) out.push(`${label} ${tp.clock}`);
+  for (const [label, tp] of timeRows(t)) if (tp !== null) out.push(`${label} ${tp.clock}`);
   out.push(
     t.sedation === null
       ? 'Sedation time not known (no sedation start and no sedative dose)'

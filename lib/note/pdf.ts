@@ -12,6 +12,7 @@ import {
   formatPercent,
   formatScore,
 } from './format';
+import { timeRows } from './noteText';
 import { CHANNEL_LABEL } from './labels';
 import type { CaseNote, ChartData, ChartSeries, EpisodeLine } from './types';
 
@@ -419,18 +420,9 @@ export async function renderNotePdf(note: CaseNote, chart: ChartData, options: R
   drawChart(ctx, chart);
 
   heading(ctx, 'Times');
-  const timeRows: [string, { clock: string } | null][] = [
-    ['Case start', t.caseStart],
-    ['Sedation start', t.sedationStart],
-    ['Procedure start', t.procedureStart],
-    ['Procedure end', t.procedureEnd],
-    ['Recovery start', t.recoveryStart],
-    ['Sedation end', t.sedationEnd],
-    ['Discharge', t.discharge],
-  ];
   line(
     ctx,
-    timeRows
+    timeRows(t)
       .filter((r) => r[1] !== null)
       .map(([label, tp]) => `${label} ${tp?.clock}`)
       .join(' · '),

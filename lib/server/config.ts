@@ -5,10 +5,12 @@ export interface ServerConfig {
   secureCookies: boolean;
 }
 
-function num(v: string | undefined, dflt: number): number {
+/** A positive number from the environment, else the default (integers only when asked). */
+export function positiveEnv(v: string | undefined, dflt: number, integer = false): number {
   const n = v === undefined ? NaN : Number(v);
-  return Number.isFinite(n) && n > 0 ? n : dflt;
+  return (integer ? Number.isInteger(n) : Number.isFinite(n)) && n > 0 ? n : dflt;
 }
+const num = (v: string | undefined, dflt: number) => positiveEnv(v, dflt);
 
 export function serverConfig(env: NodeJS.ProcessEnv = process.env): ServerConfig {
   return {

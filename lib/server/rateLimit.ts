@@ -1,4 +1,5 @@
 import type { PrismaClient } from '@/lib/db/generated/client';
+import { positiveEnv } from './config';
 
 /**
  * Sign-in rate limiting and temporary lockout, kept in the SignInAttempt table so every app
@@ -19,10 +20,7 @@ export interface RateLimitConfig {
   originMaxFailures: number;
 }
 
-function int(v: string | undefined, dflt: number): number {
-  const n = v === undefined ? NaN : Number(v);
-  return Number.isInteger(n) && n > 0 ? n : dflt;
-}
+const int = (v: string | undefined, dflt: number) => positiveEnv(v, dflt, true);
 
 export function rateLimitConfig(env: NodeJS.ProcessEnv = process.env): RateLimitConfig {
   return {
