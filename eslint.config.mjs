@@ -5,7 +5,7 @@ import reactHooks from 'eslint-plugin-react-hooks';
 const pureFolders = ['lib/rules', 'lib/stats', 'lib/capnogram', 'lib/note', 'lib/ingest', 'lib/export', 'lib/domain', 'lib/demo', 'lib/_shared', 'lib/indicators', 'lib/review'];
 
 export default tseslint.config(
-  { ignores: ['node_modules/**', '.next/**', '.next-*/**', 'lib/db/generated/**', 'data/**', 'tests/artifacts/**', 'next-env.d.ts'] },
+  { ignores: ['node_modules/**', '.next/**', '.next-*/**', 'lib/db/generated/**', 'lib/db/generated-pg/**', 'data/**', 'tests/artifacts/**', 'next-env.d.ts'] },
   ...tseslint.configs.recommended,
   {
     plugins: { '@next/next': nextPlugin, 'react-hooks': reactHooks },

@@ -4,8 +4,11 @@ const nextConfig = {
   distDir: process.env.PLATEAU_NEXT_DIST || '.next',
   reactStrictMode: true,
   poweredByHeader: false,
+  // Compression is the reverse proxy's job (docs/scale.md): gzip in the app cost about a third
+  // of a millisecond of the one Node thread per answer under the load benchmark (docs/trust.md).
+  compress: false,
   // Native and wasm packages stay outside the server bundle and load from node_modules.
-  serverExternalPackages: ['better-sqlite3', '@prisma/adapter-better-sqlite3', '@node-rs/argon2', 'pdfkit'],
+  serverExternalPackages: ['better-sqlite3', '@prisma/adapter-better-sqlite3', 'pg', '@prisma/adapter-pg', '@node-rs/argon2', 'pdfkit'],
   experimental: { authInterrupts: true },
   typescript: { ignoreBuildErrors: false },
   async headers() {

@@ -1,10 +1,11 @@
 // One command for the demo: migrate, seed the fictional unit if the database is empty,
 // build when the sources changed since the last build, then serve on localhost and print the
-// URL and the demo sign-ins. PORT (default 3000) and PLATEAU_DB_FILE are honoured.
+// URL and the demo sign-ins. PORT (default 3000) and the database settings (PLATEAU_DATABASE_URL,
+// PLATEAU_DB_FILE) are honoured.
 import { spawn, spawnSync } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
-import { databaseFile } from '../lib/db/sqlite';
+import { dataDir } from '../lib/db/target';
 
 const root = process.cwd();
 const tsx = path.join(root, 'node_modules', '.bin', 'tsx');
@@ -38,7 +39,7 @@ const sources = Math.max(...['app', 'lib', 'prisma', 'next.config.js', 'package-
 if (sources > built) step('build (next build)', process.execPath, [next, 'build']);
 else console.log('\n── build is current ──');
 
-const accountsFile = path.join(path.dirname(databaseFile()), 'demo-accounts.json');
+const accountsFile = path.join(dataDir(), 'demo-accounts.json');
 const accounts: { username: string; password: string; role: string; displayName: string }[] = fs.existsSync(accountsFile) ? JSON.parse(fs.readFileSync(accountsFile, 'utf8')) : [];
 const server = spawn(process.execPath, [next, 'start', '-p', port, '-H', host], { stdio: ['ignore', 'pipe', 'inherit'], env: { ...process.env, NEXT_TELEMETRY_DISABLED: '1' } });
 server.stdout.on('data', (d: Buffer) => {

@@ -1,13 +1,14 @@
-// Applies committed migrations (prisma/migrations) to the database file, offline.
+// Applies the committed migrations of the configured database (prisma/migrations/<dialect>), offline.
 import { applyMigrations } from '../lib/db/schemaEngine';
-import { databaseFile } from '../lib/db/sqlite';
+import { databaseTarget, describeTarget } from '../lib/db/target';
 
-const file = databaseFile();
-applyMigrations(file)
+const target = databaseTarget();
+const where = describeTarget(target);
+applyMigrations(target)
   .then((names) => {
-    console.log(names.length ? `migrated ${file}: ${names.join(', ')}` : `database ${file} is up to date`);
+    console.log(names.length ? `migrated ${where}: ${names.join(', ')}` : `database ${where} is up to date`);
   })
   .catch((e) => {
-    console.error(`migration failed for ${file}:`, e instanceof Error ? e.message : e);
+    console.error(`migration failed for ${where}:`, e instanceof Error ? e.message : e);
     process.exit(1);
   });

@@ -1,7 +1,8 @@
 /**
  * `npm run mllp`: the HL7 v2 MLLP listener as its own process.
  * PLATEAU_MLLP_PORT (default 2575), PLATEAU_MLLP_HOST (default 127.0.0.1),
- * PLATEAU_MLLP_ALLOW (comma-separated source addresses, default 127.0.0.1,::1), PLATEAU_DB_FILE,
+ * PLATEAU_MLLP_ALLOW (comma-separated source addresses, default 127.0.0.1,::1), the database as
+ * the app's (PLATEAU_DATABASE_URL, else PLATEAU_DB_FILE),
  * PLATEAU_SUMMARY_DEBOUNCE_MS (default 5000).
  *
  * Case summaries (the episode panel) are recomputed in a child process (forked with the same
@@ -13,8 +14,8 @@
 import { fork } from 'node:child_process';
 import os from 'node:os';
 import { fileURLToPath } from 'node:url';
-import { databaseFile, openRawDatabase } from '../lib/db/sqlite';
-import { openDb } from '../lib/db/client';
+import { closeDb, openDb, sqlOf } from '../lib/db/client';
+import { databaseTarget, describeTarget } from '../lib/db/target';
 import { startMllpServer } from '../lib/server/mllpServer';
 import { SummaryDebouncer } from '../lib/server/liveBus';
 
@@ -22,7 +23,7 @@ const DEBOUNCE_MS = Number(process.env.PLATEAU_SUMMARY_DEBOUNCE_MS ?? 5000);
 
 /** The summary worker: receives case ids, refreshes each at most once per debounce interval. */
 function summaryWorker() {
-  const client = openDb(databaseFile());
+  const client = openDb(databaseTarget());
   const summaries = new SummaryDebouncer(() => client, DEBOUNCE_MS);
   process.on('message', (m: { caseId?: string; flush?: boolean }) => {
     if (m.caseId) summaries.touch(m.caseId);
@@ -32,8 +33,9 @@ function summaryWorker() {
 }
 
 async function main() {
-  const file = databaseFile();
-  const raw = openRawDatabase(file);
+  const target = databaseTarget();
+  const client = openDb(target);
+  const q = sqlOf(client);
   const worker = fork(fileURLToPath(import.meta.url), [], { env: { ...process.env, PLATEAU_MLLP_ROLE: 'summaries' } });
   // Below the listener in CPU priority: ACK latency matters more than a summary a second sooner.
   if (worker.pid) {
@@ -58,13 +60,13 @@ async function main() {
         else res();
       }),
   };
-  const unit = raw.prepare('SELECT timeZone FROM Unit ORDER BY createdAt LIMIT 1').get() as { timeZone: string } | undefined;
+  const unit = await q.get<{ timeZone: string }>('SELECT "timeZone" FROM "Unit" ORDER BY "createdAt" LIMIT 1');
   const zoneOffset = unit ? zoneOffsetMinutes(unit.timeZone, new Date()) : 0;
   const port = Number(process.env.PLATEAU_MLLP_PORT ?? 2575);
   const host = process.env.PLATEAU_MLLP_HOST ?? '127.0.0.1';
   const allow = (process.env.PLATEAU_MLLP_ALLOW ?? '127.0.0.1,::1').split(',').map((s) => s.trim()).filter(Boolean);
   const quiet = process.env.PLATEAU_MLLP_QUIET === '1';
-  const srv = await startMllpServer(raw, {
+  const srv = await startMllpServer(q, {
     port,
     host,
     allow,
@@ -75,11 +77,11 @@ async function main() {
       if (!quiet) console.log(`${new Date().toISOString()} ${r.status} ${r.stored} samples${r.caseId ? ` → case ${r.caseId}` : ''}`);
     },
   });
-  console.log(`MLLP listener on ${host}:${srv.port} (db ${file}; allow ${allow.join(', ')})`);
+  console.log(`MLLP listener on ${host}:${srv.port} (db ${describeTarget(target)}; allow ${allow.join(', ')})`);
   const stop = async () => {
     await srv.close();
     await summaries.flush();
-    raw.close();
+    await closeDb(client);
     worker.kill('SIGTERM');
     process.exit(0);
   };

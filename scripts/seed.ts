@@ -1,31 +1,37 @@
 // Fills an empty database with the fictional demo unit (lib/demo). Refuses a database that
 // already has a unit or users. Demo passwords: PLATEAU_DEMO_PASSWORD for every account, else
-// a random one per account; they are written beside the database in demo-accounts.json
-// (git-ignored, like the database) so `npm run demo` can print them at every start.
+// a random one per account; they are written to the data folder (PLATEAU_DATA_DIR, else beside
+// the SQLite file, else ./data) in demo-accounts.json (git-ignored, like the database) so
+// `npm run demo` can print them at every start.
 // PLATEAU_DEMO_CASES sets the number of past cases (default 400).
-import { randomBytes, randomUUID } from 'node:crypto';
+import { randomBytes } from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
 import { generateDemoUnit } from '../lib/demo';
 import { DEMO_FORMULARY, DEMO_PROCEDURALISTS, DEMO_PROCEDURES, DEMO_ROOMS, DEMO_STAFF, DEMO_UNIT } from '../lib/demo/unit';
 import { hashPassword } from '../lib/server/password';
 import { applyMigrations } from '../lib/db/schemaEngine';
-import { databaseFile, openRawDatabase } from '../lib/db/sqlite';
+import { dataDir, databaseTarget, describeTarget } from '../lib/db/target';
 import { isEmpty, writeSeed } from '../lib/db/seed';
 import { recomputeAllSummaries } from '../lib/db/summaries';
-import { openDb } from '../lib/db/client';
+import { rebuildAllStatsMonths } from '../lib/db/statsMonths';
+import { activeRuleSet } from '../lib/db/summaries';
+import { getCatalogue } from '../lib/indicators/catalogue';
+import { closeDb, openDb, sqlOf } from '../lib/db/client';
 import { importWaveformCsv } from '../lib/db/waveform';
 import { generateCapnogram } from '../lib/capnogram';
 
 const ROLE_MAP: Record<string, string> = { nurse: 'nurse', lead: 'lead', safety_officer: 'safety', admin: 'admin' };
 
 async function main() {
-  const file = databaseFile();
-  await applyMigrations(file);
-  const raw = openRawDatabase(file);
-  if (!isEmpty(raw)) {
+  const target = databaseTarget();
+  const file = describeTarget(target);
+  await applyMigrations(target);
+  const client = openDb(target);
+  const q = sqlOf(client);
+  if (!(await isEmpty(q))) {
     console.log(`database ${file} already has data: not seeding`);
-    raw.close();
+    await closeDb(client);
     return;
   }
   const now = new Date();
@@ -35,7 +41,7 @@ async function main() {
   const fixed = process.env.PLATEAU_DEMO_PASSWORD;
   const accounts = DEMO_STAFF.map((s) => ({ username: s.username, displayName: s.displayName, role: ROLE_MAP[s.role] ?? 'nurse', password: fixed || `demo-${randomBytes(5).toString('hex')}` }));
   const users = await Promise.all(accounts.map(async (a) => ({ id: `user-${a.username}`, username: a.username, displayName: a.displayName, role: a.role, passwordHash: await hashPassword(a.password) })));
-  const counts = writeSeed(raw, {
+  const counts = await writeSeed(q, {
     site: { id: 'site-kestrel', name: 'Kestrel Bay (fictional demo site)' },
     unit: { id: DEMO_UNIT.id, name: DEMO_UNIT.name, timeZone: DEMO_UNIT.timeZone, defaultRoomId: DEMO_ROOMS[0]?.id ?? null, usualProceduralistId: DEMO_PROCEDURALISTS[0]?.id ?? null },
     rooms: DEMO_ROOMS.map((r, i) => ({ id: r.id, name: r.name, sortOrder: i, location: `KB-${r.id.toUpperCase()}` })),
@@ -47,15 +53,15 @@ async function main() {
     cases: demo.cases,
     now,
   });
-  raw.close();
-  const client = openDb(file);
   const waveCase = await seedWaveform(client, now);
   const summarised = await recomputeAllSummaries(client, now);
-  await client.$disconnect();
-  fs.writeFileSync(path.join(path.dirname(file), 'demo-accounts.json'), JSON.stringify(accounts, null, 2) + '\n', { mode: 0o600 });
+  // The statistics rollups the app keeps as cases are signed (lib/db/statsMonths).
+  for (const rs of [await activeRuleSet(client, DEMO_UNIT.id), getCatalogue().ruleSet]) await rebuildAllStatsMonths(client, rs, now);
+  await closeDb(client);
+  fs.mkdirSync(dataDir(), { recursive: true });
+  fs.writeFileSync(path.join(dataDir(), 'demo-accounts.json'), JSON.stringify(accounts, null, 2) + '\n', { mode: 0o600 });
   if (waveCase) console.log(`raw CO2 waveform (50 Hz, 10 min) stored for case ${waveCase}`);
   console.log(`seeded ${file}: ${counts.cases} cases, ${counts.samples.toLocaleString('en-GB')} samples, ${summarised} summaries in ${((performance.now() - t0) / 1000).toFixed(1)} s`);
-  void randomUUID;
 }
 /**
  * One of today's open cases gets ten minutes of raw CO2 at 50 Hz from the synthetic capnogram

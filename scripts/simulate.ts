@@ -4,7 +4,8 @@
  *
  * A bedside monitor: one ORU^R01 (IHE PCD-01 shape) per second over MLLP with EtCO2, RR, SpO2 and
  * HR from the demo generator's live scenario stream (lib/demo/liveScenario.ts), timed now. The
- * room's location (PV1-3) comes from the database (PLATEAU_DB_FILE) unless --location is given.
+ * room's location (PV1-3) comes from the database (PLATEAU_DATABASE_URL, else PLATEAU_DB_FILE)
+ * unless --location is given.
  * The listener accepts only known devices, so unless --no-register the simulator makes sure an
  * active Device row "sim-<room>" with sending facility SIM-<room> exists, bound to the room.
  * Prints each ACK code; exits non-zero if any message was refused.
@@ -14,7 +15,8 @@ import { randomUUID } from 'node:crypto';
 import { createRng, liveScenarioStream, LIVE_SCENARIOS, type LiveScenario } from '../lib/demo';
 import { buildOru, readAck } from '../lib/ingest/hl7';
 import { MllpDecoder, mllpFrame } from '../lib/ingest/mllp';
-import { isoDb, openRawDatabase } from '../lib/db/sqlite';
+import { closeDb, openDb, sqlOf } from '../lib/db/client';
+import { databaseTarget } from '../lib/db/target';
 
 function args(argv: string[]): Map<string, string> {
   const m = new Map<string, string>();
@@ -44,19 +46,24 @@ async function main() {
   const facility = a.get('facility') ?? `SIM-${room}`;
   let location = a.get('location');
   if (!location || !a.has('no-register')) {
-    const raw = openRawDatabase();
-    const r = raw.prepare('SELECT id, unitId, location FROM Room WHERE id = ? OR name = ?').get(room, room) as { id: string; unitId: string; location: string | null } | undefined;
-    if (!r) throw new Error(`room ${room} not found in the database`);
-    location ??= r.location ?? undefined;
-    if (!location) throw new Error(`room ${room} has no location code; pass --location`);
-    if (!a.has('no-register')) {
-      const d = raw.prepare('SELECT id FROM Device WHERE sendingFacility = ? AND active = 1').get(facility);
-      if (!d) {
-        raw.prepare('INSERT INTO Device (id, unitId, roomId, label, sendingFacility, equipmentId, active, createdAt) VALUES (?, ?, ?, ?, ?, ?, 1, ?)').run(`sim-${r.id}`, r.unitId, r.id, `Simulator (${r.id})`, facility, `SIM-${r.id}`, isoDb(new Date()));
-        console.log(`registered device sim-${r.id} (sending facility ${facility}) for ${r.id}`);
+    const client = openDb(databaseTarget());
+    try {
+      const q = sqlOf(client);
+      const r = await q.get<{ id: string; unitId: string; location: string | null }>('SELECT "id", "unitId", "location" FROM "Room" WHERE "id" = ? OR "name" = ?', [room, room]);
+      if (!r) throw new Error(`room ${room} not found in the database`);
+      location ??= r.location ?? undefined;
+      if (!location) throw new Error(`room ${room} has no location code; pass --location`);
+      if (!a.has('no-register')) {
+        const registered = await q.tx(async (t) => {
+          if (await t.get('SELECT "id" FROM "Device" WHERE "sendingFacility" = ? AND "active" = TRUE', [facility])) return false;
+          await t.run('INSERT INTO "Device" ("id", "unitId", "roomId", "label", "sendingFacility", "equipmentId", "active", "createdAt") VALUES (?, ?, ?, ?, ?, ?, TRUE, ?)', [`sim-${r.id}`, r.unitId, r.id, `Simulator (${r.id})`, facility, `SIM-${r.id}`, new Date()]);
+          return true;
+        });
+        if (registered) console.log(`registered device sim-${r.id} (sending facility ${facility}) for ${r.id}`);
       }
+    } finally {
+      await closeDb(client);
     }
-    raw.close();
   }
   const stream = liveScenarioStream(createRng(a.get('seed') ?? `${room}-${scenario}`), scenario, 0);
   const sock = net.connect({ port, host });

@@ -1,11 +1,15 @@
-// Runs every test: unit, then a production build, then integration tests against the built
-// server, then browser tests in Debian Chromium. Prints one closing line for CI:
-// `tests: N passed, N failed`. Without Chromium the browser tests are skipped LOUDLY; with
-// PLATEAU_REQUIRE_BROWSER=1 (set by .ci/run) a missing browser fails the run instead.
+// Runs every test: unit, then a production build, then the integration suite against the built
+// server twice — on SQLite and on PostgreSQL — then browser tests in Debian Chromium. Prints one
+// closing line for CI: `tests: N passed, N failed`.
+// PostgreSQL: the server at PLATEAU_TEST_PG_URL (a role that may create databases), else a
+// throwaway cluster started here from Debian's postgresql packages (scripts/pgServer.mjs).
+// Without Chromium or PostgreSQL those tests are skipped LOUDLY; with PLATEAU_REQUIRE_BROWSER=1 /
+// PLATEAU_REQUIRE_POSTGRES=1 (both set by .ci/run) a missing one fails the run instead.
 import { spawnSync } from 'node:child_process';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
+import { postgresBinDir, startTempPostgres } from './pgServer.mjs';
 
 const root = process.cwd();
 const out = fs.mkdtempSync(path.join(os.tmpdir(), 'plateau-results-'));
@@ -13,16 +17,17 @@ const vitest = path.join(root, 'node_modules', 'vitest', 'vitest.mjs');
 const next = path.join(root, 'node_modules', 'next', 'dist', 'bin', 'next');
 const chromium = process.env.PLATEAU_CHROMIUM ?? '/usr/bin/chromium';
 const requireBrowser = process.env.PLATEAU_REQUIRE_BROWSER === '1';
-const only = process.argv[2]; // optional: unit | integration | e2e
+const requirePostgres = process.env.PLATEAU_REQUIRE_POSTGRES === '1';
+const only = process.argv[2]; // optional: unit | integration | integration-sqlite | integration-postgresql | e2e
 
 let passed = 0;
 let failed = 0;
 let skipped = 0;
 let ok = true;
 
-function project(name) {
-  const file = path.join(out, `${name}.json`);
-  const r = spawnSync(process.execPath, [vitest, 'run', '--project', name, '--reporter=default', '--reporter=json', `--outputFile.json=${file}`], { stdio: 'inherit', env: process.env });
+function project(name, env = process.env, label = name) {
+  const file = path.join(out, `${label}.json`);
+  const r = spawnSync(process.execPath, [vitest, 'run', '--project', name, '--reporter=default', '--reporter=json', `--outputFile.json=${file}`], { stdio: 'inherit', env });
   if (fs.existsSync(file)) {
     const j = JSON.parse(fs.readFileSync(file, 'utf8'));
     passed += j.numPassedTests ?? 0;
@@ -47,10 +52,44 @@ function build() {
   return true;
 }
 
+function loud(lines) {
+  console.warn('\n' + '!'.repeat(78));
+  for (const l of lines) console.warn(`!!! ${l}`);
+  console.warn('!'.repeat(78) + '\n');
+}
+
+async function integrationOnPostgres() {
+  let url = process.env.PLATEAU_TEST_PG_URL;
+  let server = null;
+  if (!url) {
+    if (!postgresBinDir()) {
+      if (requirePostgres) {
+        console.error('\n!!! PostgreSQL not found: the PostgreSQL integration run is required here (PLATEAU_REQUIRE_POSTGRES=1) — failing.\n');
+        failed += 1;
+        ok = false;
+      } else loud(['INTEGRATION TESTS ON POSTGRESQL SKIPPED: no PostgreSQL server programs found.', 'Install them (Debian: apt-get install -y postgresql) or set PLATEAU_TEST_PG_URL.']);
+      return;
+    }
+    console.log('\n── starting a throwaway PostgreSQL server (scripts/pgServer.mjs) ──');
+    server = await startTempPostgres();
+    url = server.url;
+  }
+  console.log(`\n── integration tests on PostgreSQL (${url.replace(/:[^:@/]*@/, ':***@')}) ──`);
+  try {
+    project('integration', { ...process.env, PLATEAU_TEST_DIALECT: 'postgresql', PLATEAU_TEST_PG_URL: url }, 'integration-postgresql');
+  } finally {
+    server?.stop();
+  }
+}
+
 if (!only || only === 'unit') project('unit');
-const needServer = !only || only === 'integration' || only === 'e2e';
+const needServer = !only || only.startsWith('integration') || only === 'e2e';
 const built = needServer && (process.env.PLATEAU_SKIP_BUILD === '1' || build());
-if (built && (!only || only === 'integration')) project('integration');
+if (built && (!only || only === 'integration' || only === 'integration-sqlite')) {
+  console.log('\n── integration tests on SQLite ──');
+  project('integration', { ...process.env, PLATEAU_TEST_DIALECT: 'sqlite' }, 'integration-sqlite');
+}
+if (built && (!only || only === 'integration' || only === 'integration-postgresql')) await integrationOnPostgres();
 if (built && (!only || only === 'e2e')) {
   if (fs.existsSync(chromium)) {
     project('e2e');
@@ -59,10 +98,7 @@ if (built && (!only || only === 'e2e')) {
     failed += 1;
     ok = false;
   } else {
-    console.warn('\n' + '!'.repeat(78));
-    console.warn(`!!! BROWSER TESTS SKIPPED: Chromium not found at ${chromium}.`);
-    console.warn('!!! Install it (Debian: apt-get install -y chromium) to run them.');
-    console.warn('!'.repeat(78) + '\n');
+    loud([`BROWSER TESTS SKIPPED: Chromium not found at ${chromium}.`, 'Install it (Debian: apt-get install -y chromium) to run them.']);
   }
 }
 

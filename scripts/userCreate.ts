@@ -7,8 +7,8 @@ import { NewUserInput } from '../lib/domain/user';
 import { zodMessage } from '../lib/_shared/zodMessage';
 import { hashPassword, passwordProblem } from '../lib/server/password';
 import { createUser, DuplicateUsernameError } from '../lib/db/users';
-import { openDb } from '../lib/db/client';
-import { databaseFile } from '../lib/db/sqlite';
+import { openDb, closeDb } from '../lib/db/client';
+import { databaseTarget, describeTarget } from '../lib/db/target';
 import { applyMigrations } from '../lib/db/schemaEngine';
 
 async function readPassword(): Promise<string> {
@@ -57,9 +57,10 @@ async function main() {
     console.error(`password: ${problem}`);
     process.exit(2);
   }
-  const file = databaseFile();
-  await applyMigrations(file);
-  const client = openDb(file);
+  const target = databaseTarget();
+  const file = describeTarget(target);
+  await applyMigrations(target);
+  const client = openDb(target);
   const unit = await client.unit.findFirst({ orderBy: { createdAt: 'asc' } });
   try {
     await createUser(client, { id: randomUUID(), username: parsed.data.username, displayName: parsed.data.displayName, role: parsed.data.role, passwordHash: await hashPassword(password), unitId: unit?.id ?? null }, { id: null, role: null, origin: 'command line' }, new Date());
@@ -71,7 +72,7 @@ async function main() {
     throw e;
   }
   console.log(`created ${parsed.data.role} account ${parsed.data.username} in ${file}`);
-  await client.$disconnect();
+  await closeDb(client);
 }
 main().catch((e) => {
   console.error(e);

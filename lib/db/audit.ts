@@ -27,16 +27,10 @@ export function auditHash(content: string): string {
   return createHash('sha256').update(content).digest('hex');
 }
 
-/**
- * Appends one hash-chained audit entry. Call inside the same transaction as the change it
- * records, so the entry and the change commit together (SQLite serialises writers, so the
- * chain has no forks).
- */
-export async function appendAudit(tx: Tx, input: AuditInput): Promise<void> {
-  const last = await tx.auditEntry.findFirst({ orderBy: { seq: 'desc' }, select: { seq: true, hash: true } });
-  const seq = (last?.seq ?? 0) + 1;
+/** The next entry of the chain after `last` (null: the first), with its hash. */
+export function nextAuditRow(last: { seq: number; hash: string } | null | undefined, input: AuditInput) {
   const row = {
-    seq,
+    seq: (last?.seq ?? 0) + 1,
     at: input.at,
     actorId: input.actorId ?? null,
     role: input.role ?? null,
@@ -49,5 +43,15 @@ export async function appendAudit(tx: Tx, input: AuditInput): Promise<void> {
     origin: input.origin ?? null,
     prevHash: last?.hash ?? GENESIS_HASH,
   };
-  await tx.auditEntry.create({ data: { ...row, hash: auditHash(auditContent(row)) } });
+  return { ...row, hash: auditHash(auditContent(row)) };
+}
+
+/**
+ * Appends one hash-chained audit entry. Call inside the same write transaction as the change it
+ * records (lib/db/tx.ts `writeTx`), so the entry and the change commit together and the chain
+ * has no forks (writers are serialised on both databases).
+ */
+export async function appendAudit(tx: Tx, input: AuditInput): Promise<void> {
+  const last = await tx.auditEntry.findFirst({ orderBy: { seq: 'desc' }, select: { seq: true, hash: true } });
+  await tx.auditEntry.create({ data: nextAuditRow(last, input) });
 }

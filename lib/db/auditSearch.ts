@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import type { PrismaClient } from './generated/client';
+import { caseless } from './caseless';
 
 /**
  * Searching the audit trail (leads and admins): by case, by user (username or display name,
@@ -60,7 +61,8 @@ export async function searchAudit(client: PrismaClient, q: AuditQuery): Promise<
   if (q.from || q.to) where.at = { ...(q.from ? { gte: periodStart(q.from) } : {}), ...(q.to ? { lte: periodEnd(q.to) } : {}) };
   if (q.before) where.seq = { lt: q.before };
   if (q.user) {
-    const users = await client.user.findMany({ where: { OR: [{ username: { contains: q.user } }, { displayName: { contains: q.user } }, { id: q.user }] }, select: { id: true } });
+    const ci = caseless(client);
+    const users = await client.user.findMany({ where: { OR: [{ username: { contains: q.user, ...ci } }, { displayName: { contains: q.user, ...ci } }, { id: q.user }] }, select: { id: true } });
     where.actorId = { in: users.map((u) => u.id) };
   }
   const found = await client.auditEntry.findMany({ where, orderBy: { seq: 'desc' }, take: q.limit + 1 });

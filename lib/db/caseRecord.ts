@@ -5,41 +5,40 @@ import type { DoseUnit, DrugClass } from '@/lib/domain/drug';
 import type { InterventionKind } from '@/lib/domain/intervention';
 import { ageInYears } from '@/lib/_shared/time';
 import { waveformSeriesForCase } from './waveform';
-import { rawFor } from './rawReader';
+import { sqlOf } from './client';
+import { loadCaseRows, type CaseRows } from './caseRows';
+import { asBool } from './sql';
 
 const UNIT_OF: Record<string, SampleSeries['unit']> = { etco2: 'mmHg', inspco2: 'mmHg', spo2: '%', rr: '/min', hr: '/min' };
 
 /**
  * Loads a stored case as the engine's CaseRecord — the same shape a `plateau-case/1` file
  * gives. Voided entries are left out; times become seconds from the case clock (Case.startAt).
+ * `rows`: the case's rows when the caller has just read them (the case sheet), else read here.
  */
-export async function loadCaseRecord(client: PrismaClient, caseId: string): Promise<CaseRecord | null> {
-  const c = await client.case.findUnique({
-    where: { id: caseId },
-    include: {
-      patient: { select: { birthDate: true, sex: true } },
-      doses: { where: { voidedAt: null }, orderBy: { at: 'asc' } },
-      interventions: { where: { voidedAt: null }, orderBy: { at: 'asc' } },
-      events: { where: { voidedAt: null }, orderBy: { at: 'asc' } },
-      vitals: { where: { voidedAt: null }, orderBy: { at: 'asc' } },
-    },
-  });
-  if (!c) return null;
+export async function loadCaseRecord(client: PrismaClient, caseId: string, rows?: CaseRows): Promise<CaseRecord | null> {
+  const q = sqlOf(client);
+  const all = rows ?? (await loadCaseRows(q, caseId));
+  if (!all) return null;
+  const live = <T extends { voidedAt: Date | null }>(xs: T[]) => xs.filter((x) => x.voidedAt === null);
+  const c = { ...all.case, doses: live(all.doses), interventions: live(all.interventions), events: live(all.events), vitals: live(all.vitals) };
   const startMs = c.startAt.getTime();
   const sec = (d: Date) => (d.getTime() - startMs) / 1000;
   // Samples are the bulk of a case (3,600 a channel an hour): read them raw, in index order.
-  const raw = await rawFor(client);
-  const rows = (raw.prepare('SELECT channel, atMs, value, source, probeOff FROM Sample WHERE caseId = ? ORDER BY channel, source, atMs').all(caseId) as { channel: string; atMs: number; value: number; source: string; probeOff: number }[]).map((r) => ({ ...r, probeOff: r.probeOff === 1 }));
+  const samples = await q.all<{ channel: string; atMs: number; value: number; source: string; probeOff: unknown }>(
+    'SELECT "channel", "atMs", "value", "source", "probeOff" FROM "Sample" WHERE "caseId" = ? ORDER BY "channel", "source", "atMs"',
+    [caseId],
+  );
   const series: SampleSeries[] = [];
   let cur: SampleSeries | null = null;
-  for (const r of rows) {
+  for (const r of samples) {
     if (!cur || cur.channel !== r.channel || cur.source !== r.source) {
       cur = { channel: r.channel as Channel, unit: UNIT_OF[r.channel] ?? '/min', source: r.source as 'monitor' | 'manual', t: [], v: [] };
       series.push(cur);
     }
     cur.t.push((r.atMs - startMs) / 1000);
     cur.v.push(r.value);
-    if (r.probeOff) {
+    if (asBool(r.probeOff)) {
       cur.probeOff ??= new Array(cur.t.length - 1).fill(false);
       cur.probeOff.push(true);
     } else if (cur.probeOff) cur.probeOff.push(false);

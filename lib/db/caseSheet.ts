@@ -1,6 +1,8 @@
 import type { PrismaClient } from './generated/client';
 import { refreshSummary } from './summaries';
-import { rawFor } from './rawReader';
+import { sqlOf } from './client';
+import { asBool, asDate } from './sql';
+import { loadCaseRows } from './caseRows';
 import type { Analysis } from '@/lib/domain/episode';
 
 export interface SheetEntryBase {
@@ -56,32 +58,24 @@ export interface CaseSheetData {
 
 /** Everything the live case sheet shows, in one read; samples incrementally by id. */
 export async function loadCaseSheet(client: PrismaClient, caseId: string, afterSampleId: number, now: Date): Promise<CaseSheetData | null> {
-  const c = await client.case.findUnique({
-    where: { id: caseId },
-    include: {
-      patient: true,
-      room: true,
-      unit: { select: { name: true, timeZone: true, vitalsReminderMin: true } },
-      proceduralist: true,
-      nurse: { select: { displayName: true } },
-      doses: { orderBy: { at: 'asc' } },
-      interventions: { orderBy: { at: 'asc' } },
-      events: { orderBy: { at: 'asc' } },
-      vitals: { orderBy: { at: 'asc' } },
-      recoveryScores: { orderBy: { at: 'asc' } },
-    },
-  });
-  if (!c) return null;
-  const gases = await client.bloodGas.findMany({ where: { caseId }, orderBy: { at: 'asc' } });
-  const waveformImports = await client.waveformImport.count({ where: { caseId } });
-  const [drugs, users, samples, imports] = await Promise.all([
-    client.drug.findMany({ where: { unitId: c.unitId, active: true }, orderBy: [{ sortOrder: 'asc' }, { name: 'asc' }] }),
-    client.user.findMany({ where: { unitId: c.unitId }, select: { id: true, displayName: true } }),
-    rawFor(client).then((raw) =>
-      (raw.prepare("SELECT id, channel, atMs, value, probeOff FROM Sample WHERE caseId = ? AND id > ? AND source = 'monitor' ORDER BY atMs").all(caseId, afterSampleId) as { id: number; channel: string; atMs: number; value: number; probeOff: number }[]).map((r) => ({ ...r, probeOff: r.probeOff === 1 })),
+  const q = sqlOf(client);
+  const rows = await loadCaseRows(q, caseId);
+  if (!rows) return null;
+  const c = rows.case;
+  const [drugs, users, samples, imports, waveform] = await Promise.all([
+    q.all<CaseSheetData['drugs'][number]>(
+      'SELECT "id", "name", "drugClass", "defaultUnit", "defaultRoute", "usualDose", "cautionAbove", "concentration" FROM "Drug" WHERE "unitId" = ? AND "active" = TRUE ORDER BY "sortOrder", "name"',
+      [c.unitId],
     ),
-    client.sampleImport.findMany({ where: { caseId }, orderBy: { createdAt: 'asc' } }),
+    q.all<{ id: string; displayName: string }>('SELECT "id", "displayName" FROM "User" WHERE "unitId" = ?', [c.unitId]),
+    q
+      .all<{ id: number; channel: string; atMs: number; value: number; probeOff: unknown }>(`SELECT "id", "channel", "atMs", "value", "probeOff" FROM "Sample" WHERE "caseId" = ? AND "id" > ? AND "source" = 'monitor' ORDER BY "atMs"`, [caseId, afterSampleId])
+      .then((list) => list.map((r) => ({ ...r, probeOff: asBool(r.probeOff) }))),
+    q.all<{ id: string; fileName: string; samples: number; createdAt: unknown }>('SELECT "id", "fileName", "samples", "createdAt" FROM "SampleImport" WHERE "caseId" = ? ORDER BY "createdAt"', [caseId]),
+    q.get<{ n: number }>('SELECT COUNT(*) AS "n" FROM "WaveformImport" WHERE "caseId" = ?', [caseId]),
   ]);
+  const gases = rows.bloodGases;
+  const waveformImports = Number(waveform?.n ?? 0);
   const names = new Map(users.map((u) => [u.id, u.displayName]));
   const who = (id: string | null) => (id ? (names.get(id) ?? 'another unit') : null);
   const base = (r: { id: string; at: Date; createdById: string | null; createdAt: Date; voidedAt: Date | null; voidedById: string | null; voidReason: string | null; replacesId?: string | null }): SheetEntryBase => ({
@@ -104,7 +98,7 @@ export async function loadCaseSheet(client: PrismaClient, caseId: string, afterS
   }
   let analysis: Analysis | null = null;
   try {
-    analysis = await refreshSummary(client, caseId, now);
+    analysis = await refreshSummary(client, caseId, now, undefined, rows);
   } catch (e) {
     console.error('analysis failed for a case', e instanceof Error ? e.message : 'unknown');
   }
@@ -129,21 +123,21 @@ export async function loadCaseSheet(client: PrismaClient, caseId: string, afterS
       baselineSpo2: c.baselineSpo2,
       oxygenDelivery: c.oxygenDelivery,
       stopBang: { snoring: c.sbSnoring, tired: c.sbTired, observed: c.sbObserved, pressure: c.sbPressure, neck: c.sbNeck, neckCm: c.neckCm },
-      room: c.room?.name ?? null,
-      proceduralist: c.proceduralist?.name ?? null,
-      nurse: c.nurse?.displayName ?? null,
+      room: c.room,
+      proceduralist: c.proceduralist,
+      nurse: c.nurse,
       patient: { mrn: c.patient.mrn, familyName: c.patient.familyName, givenName: c.patient.givenName, birthDate: c.patient.birthDate, sex: c.patient.sex },
       unit: c.unit,
     },
     drugs: drugs.map((d) => ({ id: d.id, name: d.name, drugClass: d.drugClass, defaultUnit: d.defaultUnit, defaultRoute: d.defaultRoute, usualDose: d.usualDose, cautionAbove: d.cautionAbove, concentration: d.concentration })),
-    doses: c.doses.map((d) => ({ ...base(d), drugId: d.drugId, drug: d.drug, amount: d.amount, unit: d.unit, route: d.route })),
-    interventions: c.interventions.map((i) => ({ ...base(i), kind: i.kind, note: i.note })),
-    events: c.events.map((e) => ({ ...base(e), kind: e.kind, note: e.note })),
+    doses: rows.doses.map((d) => ({ ...base(d), drugId: d.drugId, drug: d.drug, amount: d.amount, unit: d.unit, route: d.route })),
+    interventions: rows.interventions.map((i) => ({ ...base(i), kind: i.kind, note: i.note })),
+    events: rows.events.map((e) => ({ ...base(e), kind: e.kind, note: e.note })),
     bloodGases: gases.map((g) => ({ ...base({ ...g, replacesId: null }), paco2: g.paco2, enteredUnit: g.enteredUnit, ph: g.ph, pao2: g.pao2, fio2: g.fio2, sampleType: g.sampleType })),
-    vitals: c.vitals.map((v) => ({ ...base(v), sbp: v.sbp, dbp: v.dbp, hr: v.hr, spo2: v.spo2, rr: v.rr, etco2: v.etco2, sedationScore: v.sedationScore })),
-    recovery: c.recoveryScores.map((r) => ({ ...base({ ...r, replacesId: null }), activity: r.activity, respiration: r.respiration, circulation: r.circulation, consciousness: r.consciousness, oxygenation: r.oxygenation, total: r.total })),
+    vitals: rows.vitals.map((v) => ({ ...base(v), sbp: v.sbp, dbp: v.dbp, hr: v.hr, spo2: v.spo2, rr: v.rr, etco2: v.etco2, sedationScore: v.sedationScore })),
+    recovery: rows.recoveryScores.map((r) => ({ ...base({ ...r, replacesId: null }), activity: r.activity, respiration: r.respiration, circulation: r.circulation, consciousness: r.consciousness, oxygenation: r.oxygenation, total: r.total })),
     samples: { lastId, channels },
-    imports: imports.map((i) => ({ id: i.id, fileName: i.fileName, samples: i.samples, createdAt: i.createdAt.toISOString() })),
+    imports: imports.map((i) => ({ id: i.id, fileName: i.fileName, samples: Number(i.samples), createdAt: asDate(i.createdAt).toISOString() })),
     analysis,
     waveformImports,
   };

@@ -1,5 +1,6 @@
 import type { PrismaClient } from './generated/client';
 import { appendAudit } from './audit';
+import { writeTx } from './tx';
 
 export function unitOf(client: PrismaClient, unitId: string) {
   return client.unit.findUnique({ where: { id: unitId }, include: { rooms: { where: { active: true }, orderBy: { sortOrder: 'asc' } } } });
@@ -60,7 +61,7 @@ export async function recordDose(
   actor: { id: string; role: string; origin: string | null },
   now: Date,
 ) {
-  return client.$transaction(async (tx) => {
+  return writeTx(client, async (tx) => {
     const existing = await tx.dose.findUnique({ where: { id: input.id } });
     if (existing) {
       const same = existing.caseId === input.caseId && existing.drugId === input.drugId && existing.amount === input.amount && existing.unit === input.unit && existing.at.getTime() === input.at.getTime();

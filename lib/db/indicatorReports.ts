@@ -36,6 +36,7 @@ import {
   type ReportScope,
 } from '@/lib/indicators';
 import { renderReportPdf } from '@/lib/indicators/pdf';
+import { writeTx } from './tx';
 
 /** Bad input that names its field (→ 422). */
 export class ReportInputError extends Error {
@@ -168,7 +169,7 @@ export async function issueReport(client: PrismaClient, req: ReportRequest, acto
   }
   const refs = Object.fromEntries(Object.entries(members).map(([ind, ids]) => [ind, ids.map((id) => refOf.get(id)!).sort()]));
   try {
-    return await client.$transaction(async (tx) => {
+    return await writeTx(client, async (tx) => {
       const latest = await tx.issuedReport.findFirst({ where: { reportKey: key }, orderBy: { version: 'desc' } });
       const version = (latest?.version ?? 0) + 1;
       const issued: IndicatorReport = { ...report, issue: { reportKey: key, version, issuedOn: today, issuedBy: actor.displayName } };
@@ -323,7 +324,7 @@ function fileName(report: IndicatorReport, format: ExportFormat): string {
 }
 
 async function auditExport(client: PrismaClient, actor: ReportActor, now: Date, entityId: string | null, after: unknown) {
-  await client.$transaction(async (tx) => {
+  await writeTx(client, async (tx) => {
     await appendAudit(tx, { at: now, actorId: actor.id, role: actor.role, action: 'export', entity: entityId ? 'indicator_report' : 'indicator_draft', entityId, after, origin: actor.origin });
   });
 }
@@ -373,7 +374,7 @@ export async function indicatorSeriesExport(client: PrismaClient, q: SeriesReque
 export async function resolveReportRef(client: PrismaClient, reportId: string, ref: string, actor: ReportActor, now: Date): Promise<{ caseId: string }> {
   const row = await client.reportCaseRef.findUnique({ where: { reportId_ref: { reportId, ref } }, select: { caseId: true } });
   if (!row) throw new ReportNotFoundError(`ref: no reference ${ref} in report ${reportId}`);
-  await client.$transaction(async (tx) => {
+  await writeTx(client, async (tx) => {
     await appendAudit(tx, { at: now, actorId: actor.id, role: actor.role, action: 'resolve_ref', entity: 'report_case_ref', entityId: reportId, caseId: row.caseId, after: { ref }, origin: actor.origin });
   });
   return { caseId: row.caseId };

@@ -12,6 +12,10 @@ import type { DrugClass } from '@/lib/domain/drug';
 import { PROCEDURE_LABEL, bmi } from '@/lib/domain/caseFacts';
 import { stopBangFromFacts } from '@/lib/domain/stopBang';
 import { ageInYears } from '@/lib/_shared/time';
+import { writeTx } from './tx';
+import { rebuildMonthsOfCase } from './statsMonths';
+import { activeRuleSet } from './summaries';
+import { getCatalogue } from '@/lib/indicators/catalogue';
 
 /** A frozen note version as stored. */
 export interface StoredNote {
@@ -145,7 +149,7 @@ async function writeVersion(client: PrismaClient, caseId: string, v: { kind: 'si
   input.facts.signatures.push({ by: (await userNames(client, [actor.id])).get(actor.id) ?? actor.id, role: actor.role, at: now.toISOString(), kind: v.kind, ...(v.reason ? { reason: v.reason } : {}) });
   const note = composeNote(input);
   const id = randomUUID();
-  await client.$transaction(async (tx) => {
+  await writeTx(client, async (tx) => {
     const count = await tx.noteVersion.count({ where: { caseId } });
     if ((v.kind === 'signed' && count > 0) || count + 1 !== input.facts.version) throw new ConflictError('case: someone else signed or amended this note a moment ago; reload');
     await tx.noteVersion.create({
@@ -171,13 +175,20 @@ async function writeVersion(client: PrismaClient, caseId: string, v: { kind: 'si
     await tx.case.update({ where: { id: caseId }, data: { status: 'signed', nurseText: v.freeText, version: { increment: 1 } } });
     await appendAudit(tx, { at: now, actorId: actor.id, role: actor.role, action: v.kind === 'signed' ? 'sign' : 'amend', entity: 'note', entityId: id, caseId, after: { version: input.facts.version, reason: v.reason, ruleSet: input.analysis.ruleSet }, origin: actor.origin });
   });
+  // The case now counts in statistics: rebuild its month's rollups (lib/db/statsMonths). Should
+  // this fail, the next statistics read finds the month's count behind and rebuilds it.
+  if (v.kind === 'signed') {
+    const c = await client.case.findUnique({ where: { id: caseId }, select: { unitId: true } });
+    const sets = c ? [await activeRuleSet(client, c.unitId), getCatalogue().ruleSet] : [];
+    await rebuildMonthsOfCase(client, caseId, sets, now).catch((e: unknown) => console.error('statistics rollup after signing failed:', e instanceof Error ? e.message : 'unknown'));
+  }
   const all = await listNoteVersions(client, caseId);
   return all[all.length - 1];
 }
 
 /** The lead's co-signature on the latest version of a note that needs one. */
 export async function cosignNote(client: PrismaClient, caseId: string, actor: Actor, now: Date) {
-  return client.$transaction(async (tx) => {
+  return writeTx(client, async (tx) => {
     const latest = await tx.noteVersion.findFirst({ where: { caseId }, orderBy: { version: 'desc' } });
     if (!latest) throw new ConflictError('case: the note is not signed yet');
     if (!latest.cosignRequired) throw new ConflictError('case: this note does not need a co-signature');

@@ -4,10 +4,12 @@ import type { NewCaseInput } from '@/lib/domain/newCase';
 import { appendAudit } from './audit';
 import { ConflictError, NotFoundError } from './cases';
 import type { Actor } from './entries';
+import { writeTx } from './tx';
+import { caseless } from './caseless';
 
 /** Opens a case (adding the patient when new) for a nurse's unit, today, in one transaction. */
 export async function openCase(client: PrismaClient, unitId: string, input: NewCaseInput, actor: Actor, now: Date, scheduledDate: string) {
-  return client.$transaction(async (tx) => {
+  return writeTx(client, async (tx) => {
     const unit = await tx.unit.findUnique({ where: { id: unitId } });
     if (!unit) throw new NotFoundError('unit not found');
     const room = await tx.room.findFirst({ where: { id: input.roomId, unitId } });
@@ -75,10 +77,11 @@ export async function searchPatients(client: PrismaClient, unitId: string, q: st
   const term = q.trim();
   if (!term) return [];
   const words = term.split(/[\s,]+/).filter(Boolean);
+  const ci = caseless(client);
   return client.patient.findMany({
     where: {
       siteId: unit.siteId,
-      OR: [{ mrn: { startsWith: term } }, { AND: words.map((w) => ({ OR: [{ familyName: { startsWith: w } }, { givenName: { startsWith: w } }] })) }],
+      OR: [{ mrn: { startsWith: term, ...ci } }, { AND: words.map((w) => ({ OR: [{ familyName: { startsWith: w, ...ci } }, { givenName: { startsWith: w, ...ci } }] })) }],
     },
     take: 12,
     orderBy: [{ familyName: 'asc' }, { givenName: 'asc' }],

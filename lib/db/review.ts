@@ -3,6 +3,9 @@ import type { PrismaClient } from './generated/client';
 import { appendAudit } from './audit';
 import { ConflictError, NotFoundError } from './cases';
 import { loadStatsRows } from './statsRows';
+import { sqlOf } from './client';
+import { SEP, unpack } from './caseRollup';
+import type { SqlValue } from './sql';
 import { activeRuleSet, refreshSummary } from './summaries';
 import type { StatsRow } from '@/lib/domain/statsRow';
 import type { RuleSet, RuleSetRef } from '@/lib/domain/ruleSet';
@@ -33,6 +36,7 @@ import {
   type ReviewComparison,
   type ReviewPeriod,
 } from '@/lib/review';
+import { writeTx } from './tx';
 
 /** The unit as the review needs it: its review limit and the rule set its screens use. */
 export interface ReviewUnit {
@@ -87,38 +91,33 @@ async function reviewsFor(client: PrismaClient, caseIds: string[]): Promise<Map<
  * A figure as a SQL condition over `c` ("Case") and `s` (its CaseSummary): the same question
  * lib/review's figure asks of a StatsRow (tests/integration/review.test.ts checks they agree).
  */
-function figureSql(id: FigureId, responseLimitS: number): { sql: string; args: unknown[] } {
+function figureSql(id: FigureId, responseLimitS: number): { sql: string; args: SqlValue[] } {
   const limit = Number(responseLimitS);
   if (!Number.isFinite(limit)) throw new Error('responseLimitS must be a number');
-  const supported = `s.caseLevel IN ('supported', 'rescued')`;
-  if (id === 'any_episode') return { sql: 's.episodeCount > 0', args: [] };
+  const supported = `s."caseLevel" IN ('supported', 'rescued')`;
+  if (id === 'any_episode') return { sql: 's."episodeCount" > 0', args: [] };
   if (id === 'supported_or_above') return { sql: supported, args: [] };
-  if (id === 'major_physiology') return { sql: 's.majorPhysiology = 1', args: [] };
-  if (id === 'apnea_response_over_limit') return { sql: `s.firstApneaResponseS > ${limit}`, args: [] };
-  if (id === 'in_review_queue') return { sql: `(${supported} OR s.majorPhysiology = 1 OR s.firstApneaResponseS > ${limit})`, args: [] };
-  if (id.startsWith('level:')) return { sql: 's.caseLevel = ?', args: [id.slice(6)] };
-  if (id.startsWith('rule:')) return { sql: 'EXISTS (SELECT 1 FROM CaseSummaryRule sr WHERE sr.summaryId = s.id AND sr.ruleId = ? AND sr.episodes > 0)', args: [id.slice(5)] };
+  if (id === 'major_physiology') return { sql: 's."majorPhysiology" = TRUE', args: [] };
+  if (id === 'apnea_response_over_limit') return { sql: `s."firstApneaResponseS" > ${limit}`, args: [] };
+  if (id === 'in_review_queue') return { sql: `(${supported} OR s."majorPhysiology" = TRUE OR s."firstApneaResponseS" > ${limit})`, args: [] };
+  if (id.startsWith('level:')) return { sql: 's."caseLevel" = ?', args: [id.slice(6)] };
+  if (id.startsWith('rule:')) return { sql: 'EXISTS (SELECT 1 FROM "CaseSummaryRule" sr WHERE sr."summaryId" = s."id" AND sr."ruleId" = ? AND sr."episodes" > 0)', args: [id.slice(5)] };
   throw new Error(`no SQL for figure ${id}`);
 }
 
-const REVIEWED_CASES = `FROM "Case" c JOIN CaseSummary s ON s.caseId = c.id AND s.ruleSetId = ? AND s.ruleSetVersion = ?
-  WHERE c.unitId = ? AND c.status = 'signed' AND c.scheduledDate >= ? AND c.scheduledDate <= ?`;
+const REVIEWED_CASES = `FROM "Case" c JOIN "CaseSummary" s ON s."caseId" = c."id" AND s."ruleSetId" = ? AND s."ruleSetVersion" = ?
+  WHERE c."unitId" = ? AND c."status" = 'signed' AND c."scheduledDate" >= ? AND c."scheduledDate" <= ?`;
 
 /**
  * Month-by-month counts of several figures in one aggregate query over the summary tables
- * (no rows leave SQLite), for the trend charts.
+ * (no rows leave the database), for the trend charts.
  */
 export async function monthlyFigureCounts(client: PrismaClient, unit: ReviewUnit, rs: RuleSet, from: string, to: string, figures: readonly FigureDef[]): Promise<Record<FigureId, MonthCount[]>> {
   const parts = figures.map((f) => figureSql(f.id, unit.reviewResponseLimitS));
-  const rows = await client.$queryRawUnsafe<Record<string, unknown>[]>(
-    `SELECT substr(c.scheduledDate, 1, 7) AS month, COUNT(*) AS n${parts.map((p, i) => `, SUM(CASE WHEN ${p.sql} THEN 1 ELSE 0 END) AS x${i}`).join('')}
-     ${REVIEWED_CASES} GROUP BY month ORDER BY month`,
-    ...parts.flatMap((p) => p.args),
-    rs.id,
-    rs.version,
-    unit.id,
-    from,
-    to,
+  const rows = await sqlOf(client).all<Record<string, unknown>>(
+    `SELECT substr(c."scheduledDate", 1, 7) AS "month", COUNT(*) AS "n"${parts.map((p, i) => `, SUM(CASE WHEN ${p.sql} THEN 1 ELSE 0 END) AS "x${i}"`).join('')}
+     ${REVIEWED_CASES} GROUP BY substr(c."scheduledDate", 1, 7) ORDER BY 1`,
+    [...parts.flatMap((p) => p.args), rs.id, rs.version, unit.id, from, to],
   );
   const out: Record<FigureId, MonthCount[]> = {};
   figures.forEach((f, i) => (out[f.id] = rows.map((r) => ({ month: String(r.month), n: Number(r.n), x: Number(r[`x${i}`] ?? 0) }))));
@@ -128,20 +127,16 @@ export async function monthlyFigureCounts(client: PrismaClient, unit: ReviewUnit
 /** Cases and cases with the figure per ASA × procedure × regimen stratum, counted in SQL (regimen from the doses, as StatsRow has it). */
 export async function referenceStrata(client: PrismaClient, unit: ReviewUnit, rs: RuleSet, period: ReviewPeriod, figure: FigureDef): Promise<StratumCount[]> {
   const f = figureSql(figure.id, unit.reviewResponseLimitS);
-  const rows = await client.$queryRawUnsafe<{ asa: string | null; proc: string; drugs: string | null; hit: unknown; n: unknown }[]>(
-    `SELECT c.asaClass AS asa, c.procedureType AS proc, (SELECT group_concat(d.drug, char(31)) FROM Dose d WHERE d.caseId = c.id AND d.voidedAt IS NULL) AS drugs,
-       CASE WHEN ${f.sql} THEN 1 ELSE 0 END AS hit, COUNT(*) AS n
-     ${REVIEWED_CASES} GROUP BY asa, proc, drugs, hit`,
-    ...f.args,
-    rs.id,
-    rs.version,
-    unit.id,
-    period.from,
-    period.to,
+  const rows = await sqlOf(client).all<{ asa: string | null; proc: string; drugs: string | null; hit: unknown; n: unknown }>(
+    `SELECT c."asaClass" AS "asa", c."procedureType" AS "proc",
+       (SELECT string_agg(d."drug", ? ORDER BY d."at", d."id") FROM "Dose" d WHERE d."caseId" = c."id" AND d."voidedAt" IS NULL) AS "drugs",
+       CASE WHEN ${f.sql} THEN 1 ELSE 0 END AS "hit", COUNT(*) AS "n"
+     ${REVIEWED_CASES} GROUP BY 1, 2, 3, 4`,
+    [SEP, ...f.args, rs.id, rs.version, unit.id, period.from, period.to],
   );
   const strata = new Map<string, StratumCount>();
   for (const r of rows) {
-    const key = stratumKey(r.asa, r.proc, regimenOf(r.drugs ? r.drugs.split('\u001f') : []));
+    const key = stratumKey(r.asa, r.proc, regimenOf(unpack(r.drugs)));
     let c = strata.get(key);
     if (!c) strata.set(key, (c = { stratum: key, x: 0, n: 0 }));
     c.n += Number(r.n);
@@ -436,7 +431,7 @@ export async function recordReview(
 ): Promise<{ review: ReviewRecordView; changed: boolean }> {
   const data = { status: input.status, category: input.category ?? null, comment: input.comment?.trim() || null, followUp: input.followUp?.trim() || null };
   try {
-    const saved = await client.$transaction(async (tx) => {
+    const saved = await writeTx(client, async (tx) => {
       const c = await tx.case.findUnique({ where: { id: caseId }, select: { id: true } });
       if (!c) throw new NotFoundError(`case ${caseId} not found`);
       const existing = await tx.caseReview.findUnique({ where: { caseId } });

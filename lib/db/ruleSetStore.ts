@@ -4,6 +4,7 @@ import { ConflictError } from './cases';
 import { getBuiltInRuleSet, listBuiltInRuleSets } from '@/lib/rules';
 import { ruleSetSchema, type RuleSet, type RuleSetRef } from '@/lib/domain/ruleSet';
 import { RULE_SET_REF_PATTERN } from '@/lib/domain/review';
+import { writeTx } from './tx';
 
 export interface RuleSetListing {
   id: string;
@@ -53,7 +54,7 @@ export async function saveRuleSet(
   now: Date,
 ): Promise<{ id: string; version: number; created: boolean }> {
   if (getBuiltInRuleSet(input.id)) throw new ConflictError(`ruleSet.id: "${input.id}" is a built-in rule set; save your copy under an id of your own (e.g. "${input.id}-local")`);
-  return client.$transaction(async (tx) => {
+  return writeTx(client, async (tx) => {
     const latest = await tx.ruleSetVersion.findFirst({ where: { ruleSetId: input.id }, orderBy: { version: 'desc' } });
     if (latest && sameRules(JSON.parse(latest.definition) as RuleSet, input)) return { id: input.id, version: latest.version, created: false };
     const version = (latest?.version ?? 0) + 1;

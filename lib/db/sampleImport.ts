@@ -2,11 +2,12 @@
  * Monitor CSV imports: samples of a case written in one transaction with their SampleImport row
  * and an audit entry.
  *
- * Bulk writes go through a raw better-sqlite3 handle in one IMMEDIATE transaction (the write lock
+ * Bulk writes go through the Sql port (lib/db/sql.ts) in one write transaction (the write lock
  * is taken first, so the signed/duplicate checks and the inserts see the same database). Measured
- * on the build machine with 3,600 × 4 samples: Prisma `createMany` in an interactive transaction
- * ≈ 4.3 s; Prisma `$executeRawUnsafe` with 500-row multi-value INSERTs ≈ 240 ms; better-sqlite3
- * prepared statement in one transaction ≈ 80 ms. So this module uses better-sqlite3.
+ * on the build machine with 3,600 × 4 samples on SQLite: Prisma `createMany` in an interactive
+ * transaction ≈ 4.3 s; Prisma `$executeRawUnsafe` with 500-row multi-value INSERTs ≈ 240 ms;
+ * a better-sqlite3 prepared statement in one transaction ≈ 80 ms — which is what the port does
+ * on SQLite (on PostgreSQL it sends multi-row INSERTs).
  *
  * Samples at an instant that already has a monitor sample of the same channel (the Sample table's
  * unique (caseId, channel, source, atMs)) are skipped: the stored sample is kept, and the number
@@ -14,11 +15,11 @@
  * the bytes) is refused with DuplicateImportError.
  */
 import { createHash, randomUUID } from 'node:crypto';
-import type Database from 'better-sqlite3';
 import type { PrismaClient } from './generated/client';
 import { ConflictError, NotFoundError } from './cases';
-import { appendAuditRaw } from './auditRaw';
-import { databaseFile, isoDb, openRawDatabase } from './sqlite';
+import { appendAuditSql } from './auditSql';
+import { sqlOf } from './client';
+import { asDate, isUniqueViolation, type Sql } from './sql';
 import { CHANNELS, type Channel } from '@/lib/domain/channel';
 import type { SampleSeries } from '@/lib/domain/caseRecord';
 import {
@@ -101,17 +102,6 @@ export interface ImportSamplesResult {
   byChannel: Partial<Record<Channel, ChannelCount>>;
 }
 
-const rawHandles = globalThis as unknown as { plateauRaw?: { file: string; db: Database.Database } };
-
-/** The process-wide raw handle on the configured database file (the one `db()` uses). */
-function rawDb(): Database.Database {
-  const file = databaseFile();
-  if (!rawHandles.plateauRaw || rawHandles.plateauRaw.file !== file || !rawHandles.plateauRaw.db.open) {
-    rawHandles.plateauRaw = { file, db: openRawDatabase(file) };
-  }
-  return rawHandles.plateauRaw.db;
-}
-
 /** SHA-256 hex of bytes. */
 export function sha256Hex(bytes: Uint8Array): string {
   return createHash('sha256').update(bytes).digest('hex');
@@ -123,74 +113,66 @@ export function sha256Hex(bytes: Uint8Array): string {
  * in one transaction.
  *
  * `client` is read first so a missing or signed case fails without taking the write lock; the
- * checks are repeated inside the transaction on `opts.raw` (default: a raw handle on the
- * configured database file, the one `db()` uses — pass `raw` when `client` is on another file).
+ * checks are repeated inside the transaction.
  *
  * Throws NotFoundError (no such case), SignedCaseError, DuplicateImportError (same file hash for
  * the case), ConflictError (the case start changed since the file was read).
  */
-export async function importSamples(client: PrismaClient, input: ImportSamplesInput, actor: Actor, now: Date, opts: { raw?: Database.Database } = {}): Promise<ImportSamplesResult> {
+export async function importSamples(client: PrismaClient, input: ImportSamplesInput, actor: Actor, now: Date): Promise<ImportSamplesResult> {
   const pre = await client.case.findUnique({ where: { id: input.caseId }, select: { status: true } });
   if (!pre) throw new NotFoundError(`case ${input.caseId} not found`);
   if (pre.status === 'signed') throw new SignedCaseError();
   checkSeries(input.series);
   if (!/^[0-9a-f]{64}$/.test(input.fileHash)) throw new RangeError('fileHash: must be a SHA-256 hex digest');
 
-  const raw = opts.raw ?? rawDb();
+  const q = sqlOf(client);
   const importId = randomUUID();
-  const nowIso = isoDb(now);
-  const run = raw.transaction((): ImportSamplesResult => {
-    const c = raw.prepare('SELECT status, startAt FROM "Case" WHERE id = ?').get(input.caseId) as { status: string; startAt: string } | undefined;
-    if (!c) throw new NotFoundError(`case ${input.caseId} not found`);
-    if (c.status === 'signed') throw new SignedCaseError();
-    const startMs = Date.parse(c.startAt);
-    if (input.caseStartIso !== undefined && Date.parse(input.caseStartIso) !== startMs) {
-      throw new ConflictError('case: the case start changed while the file was being imported; preview the file again');
-    }
-    const dup = raw.prepare('SELECT id, fileName, createdAt FROM SampleImport WHERE caseId = ? AND fileHash = ?').get(input.caseId, input.fileHash) as { id: string; fileName: string; createdAt: string } | undefined;
-    if (dup) throw new DuplicateImportError(dup.id, new Date(Date.parse(dup.createdAt)).toISOString(), dup.fileName);
-
-    // The import row first (samples reference its id); its counts are set once the samples are in.
-    raw
-      .prepare('INSERT INTO SampleImport (id, caseId, fileHash, fileName, rows, samples, createdAt, createdById) VALUES (?, ?, ?, ?, ?, 0, ?, ?)')
-      .run(importId, input.caseId, input.fileHash, input.fileName, input.rows, nowIso, actor.id);
-    const insert = raw.prepare(
-      "INSERT INTO Sample (caseId, channel, atMs, value, source, probeOff, importId) VALUES (?, ?, ?, ?, 'monitor', 0, ?) ON CONFLICT (caseId, channel, source, atMs) DO NOTHING",
-    );
-    const byChannel: Partial<Record<Channel, ChannelCount>> = {};
-    let inserted = 0;
-    let skipped = 0;
-    for (const s of input.series) {
-      const count = (byChannel[s.channel] ??= { inserted: 0, skipped: 0 });
-      for (let i = 0; i < s.t.length; i++) {
-        const changes = insert.run(input.caseId, s.channel, startMs + Math.round(s.t[i] * 1000), s.v[i], importId).changes;
-        if (changes === 1) count.inserted++;
-        else count.skipped++;
-      }
-      inserted += count.inserted;
-      skipped += count.skipped;
-    }
-    raw.prepare('UPDATE SampleImport SET samples = ? WHERE id = ?').run(inserted, importId);
-    appendAuditRaw(raw, {
-      at: now,
-      actorId: actor.id,
-      role: actor.role,
-      action: 'import',
-      entity: 'sample_import',
-      entityId: importId,
-      caseId: input.caseId,
-      after: { fileName: input.fileName, fileHash: input.fileHash, rows: input.rows, samples: inserted, skipped, byChannel },
-      origin: actor.origin,
-    });
-    return { importId, rows: input.rows, samples: inserted, skipped, byChannel };
-  });
+  const findDup = (on: Sql) => on.get<{ id: string; fileName: string; createdAt: unknown }>('SELECT "id", "fileName", "createdAt" FROM "SampleImport" WHERE "caseId" = ? AND "fileHash" = ?', [input.caseId, input.fileHash]);
   try {
-    return run.immediate();
+    return await q.tx(async (t): Promise<ImportSamplesResult> => {
+      const c = await t.get<{ status: string; startAt: unknown }>('SELECT "status", "startAt" FROM "Case" WHERE "id" = ?', [input.caseId]);
+      if (!c) throw new NotFoundError(`case ${input.caseId} not found`);
+      if (c.status === 'signed') throw new SignedCaseError();
+      const startMs = asDate(c.startAt).getTime();
+      if (input.caseStartIso !== undefined && Date.parse(input.caseStartIso) !== startMs) {
+        throw new ConflictError('case: the case start changed while the file was being imported; preview the file again');
+      }
+      const dup = await findDup(t);
+      if (dup) throw new DuplicateImportError(dup.id, asDate(dup.createdAt).toISOString(), dup.fileName);
+
+      // The import row first (samples reference its id); its counts are set once the samples are in.
+      await t.run('INSERT INTO "SampleImport" ("id", "caseId", "fileHash", "fileName", "rows", "samples", "createdAt", "createdById") VALUES (?, ?, ?, ?, ?, 0, ?, ?)', [importId, input.caseId, input.fileHash, input.fileName, input.rows, now, actor.id]);
+      const byChannel: Partial<Record<Channel, ChannelCount>> = {};
+      let inserted = 0;
+      let skipped = 0;
+      for (const s of input.series) {
+        const rows = s.t.map((tS, i) => [input.caseId, s.channel, startMs + Math.round(tS * 1000), s.v[i], 'monitor', false, importId]);
+        const n = await t.insertMany('Sample', ['caseId', 'channel', 'atMs', 'value', 'source', 'probeOff', 'importId'], rows, { ignoreConflicts: true });
+        const count = (byChannel[s.channel] ??= { inserted: 0, skipped: 0 });
+        count.inserted += n;
+        count.skipped += rows.length - n;
+        inserted += n;
+        skipped += rows.length - n;
+      }
+      await t.run('UPDATE "SampleImport" SET "samples" = ? WHERE "id" = ?', [inserted, importId]);
+      await appendAuditSql(t, {
+        at: now,
+        actorId: actor.id,
+        role: actor.role,
+        action: 'import',
+        entity: 'sample_import',
+        entityId: importId,
+        caseId: input.caseId,
+        after: { fileName: input.fileName, fileHash: input.fileHash, rows: input.rows, samples: inserted, skipped, byChannel },
+        origin: actor.origin,
+      });
+      return { importId, rows: input.rows, samples: inserted, skipped, byChannel };
+    });
   } catch (e) {
     // Two requests with the same file at once: the unique (caseId, fileHash) index decides.
-    if (e instanceof Error && 'code' in e && e.code === 'SQLITE_CONSTRAINT_UNIQUE' && /SampleImport/.test(e.message)) {
-      const dup = raw.prepare('SELECT id, fileName, createdAt FROM SampleImport WHERE caseId = ? AND fileHash = ?').get(input.caseId, input.fileHash) as { id: string; fileName: string; createdAt: string } | undefined;
-      if (dup) throw new DuplicateImportError(dup.id, new Date(Date.parse(dup.createdAt)).toISOString(), dup.fileName);
+    if (isUniqueViolation(e)) {
+      const dup = await findDup(q);
+      if (dup) throw new DuplicateImportError(dup.id, asDate(dup.createdAt).toISOString(), dup.fileName);
     }
     throw e;
   }

@@ -1,7 +1,8 @@
 /**
  * Offline access to Prisma's schema engine through its wasm build (@prisma/schema-engine-wasm),
- * bound to better-sqlite3. The CLI's native engine is a download this network blocks; the wasm
- * engine ships inside an npm package, so migrations apply on a fresh clone with npm alone.
+ * bound to a driver adapter: better-sqlite3 for SQLite, node-postgres for PostgreSQL. The CLI's
+ * native engine is a download this network blocks; the wasm engine ships inside an npm package,
+ * so migrations apply on a fresh clone with npm alone.
  */
 import fs from 'node:fs';
 import os from 'node:os';
@@ -9,8 +10,11 @@ import path from 'node:path';
 import { createRequire } from 'node:module';
 import { pathToFileURL } from 'node:url';
 import { PrismaBetterSqlite3 } from '@prisma/adapter-better-sqlite3';
-import { bindMigrationAwareSqlAdapterFactory, type SqlMigrationAwareDriverAdapterFactory } from '@prisma/driver-adapter-utils';
+import { bindMigrationAwareSqlAdapterFactory, type SqlDriverAdapter, type SqlMigrationAwareDriverAdapterFactory } from '@prisma/driver-adapter-utils';
 import { ensureWal } from './sqlite';
+import { pgMigrationAdapter } from './postgres';
+import { asTarget, type DbTarget } from './target';
+import { SCHEMA_PATH, migrationList, schemaText } from './migrationFiles';
 
 const requireHere = createRequire(import.meta.url);
 
@@ -34,34 +38,23 @@ async function loadWasm(): Promise<Bg> {
   return bgPromise;
 }
 
-import { MIGRATIONS_DIR, SCHEMA_PATH, migrationList } from './migrationFiles';
-
-export { MIGRATIONS_DIR, SCHEMA_PATH };
+export { SCHEMA_PATH };
 const NO_FILTER = { externalTables: [], externalEnums: [] };
 
-export function readSchema(): string {
-  return fs.readFileSync(SCHEMA_PATH, 'utf8');
+/** The schema text the engine sees for a target's dialect. */
+export function readSchema(dialect: DbTarget['dialect'] = 'sqlite'): string {
+  return schemaText(dialect);
 }
 
-/**
- * Opens the schema engine on a SQLite file. `close()` frees the engine and disposes the
- * connections it opened: the engine keeps a lock on the file until they are closed.
- */
-export async function openSchemaEngine(dbFile: string): Promise<{ engine: Engine; close(): Promise<void> }> {
-  const bg = await loadWasm();
+function sqliteFactory(dbFile: string): SqlMigrationAwareDriverAdapterFactory {
   // The shadow database (where the engine replays the migration history) is a scratch file:
   // the adapter's in-memory default fails to replay here.
   const shadow = path.join(fs.mkdtempSync(path.join(os.tmpdir(), 'plateau-shadow-')), 'shadow.db');
   const inner = new PrismaBetterSqlite3({ url: `file:${dbFile}` }, { shadowDatabaseUrl: `file:${shadow}` });
-  const opened: { dispose(): Promise<void> }[] = [];
-  const tracking: SqlMigrationAwareDriverAdapterFactory = {
+  return {
     provider: inner.provider,
     adapterName: inner.adapterName,
-    connect: async () => {
-      const a = await inner.connect();
-      opened.push(a);
-      return a;
-    },
+    connect: () => inner.connect(),
     connectToShadowDb: async () => {
       const a = await inner.connectToShadowDb();
       // The engine replays each migration file on the shadow database with one executeRaw call;
@@ -78,12 +71,36 @@ export async function openSchemaEngine(dbFile: string): Promise<{ engine: Engine
           throw e;
         }
       };
+      return a;
+    },
+  };
+}
+
+/**
+ * Opens the schema engine on a database. `close()` frees the engine and disposes the
+ * connections it opened: on SQLite the engine keeps a lock on the file until they are closed.
+ */
+export async function openSchemaEngine(target: DbTarget | string): Promise<{ engine: Engine; close(): Promise<void> }> {
+  const t = asTarget(target);
+  const bg = await loadWasm();
+  const inner = t.dialect === 'sqlite' ? sqliteFactory(t.file) : pgMigrationAdapter(t.url);
+  const opened: SqlDriverAdapter[] = [];
+  const tracking: SqlMigrationAwareDriverAdapterFactory = {
+    provider: inner.provider,
+    adapterName: inner.adapterName,
+    connect: async () => {
+      const a = await inner.connect();
+      opened.push(a);
+      return a;
+    },
+    connectToShadowDb: async () => {
+      const a = await inner.connectToShadowDb();
       opened.push(a);
       return a;
     },
   };
   const factory = bindMigrationAwareSqlAdapterFactory(tracking);
-  const engine = await bg.SchemaEngine.new({ datamodels: [['schema.prisma', readSchema()]] }, () => {}, factory);
+  const engine = await bg.SchemaEngine.new({ datamodels: [['schema.prisma', readSchema(t.dialect)]] }, () => {}, factory);
   return {
     engine,
     close: async () => {
@@ -93,13 +110,16 @@ export async function openSchemaEngine(dbFile: string): Promise<{ engine: Engine
   };
 }
 
-/** Applies every committed migration not yet applied to `dbFile`; returns the names applied. */
-export async function applyMigrations(dbFile: string): Promise<string[]> {
-  fs.mkdirSync(path.dirname(dbFile), { recursive: true });
-  ensureWal(dbFile);
-  const { engine, close } = await openSchemaEngine(dbFile);
+/** Applies every committed migration of the target's dialect not yet applied; returns the names applied. */
+export async function applyMigrations(target: DbTarget | string): Promise<string[]> {
+  const t = asTarget(target);
+  if (t.dialect === 'sqlite') {
+    fs.mkdirSync(path.dirname(t.file), { recursive: true });
+    ensureWal(t.file);
+  }
+  const { engine, close } = await openSchemaEngine(t);
   try {
-    const out = await engine.applyMigrations({ migrationsList: migrationList(), filters: NO_FILTER });
+    const out = await engine.applyMigrations({ migrationsList: migrationList(t.dialect), filters: NO_FILTER });
     return out.appliedMigrationNames;
   } finally {
     await close();
@@ -107,27 +127,31 @@ export async function applyMigrations(dbFile: string): Promise<string[]> {
 }
 
 /**
- * SQL that would take a database from one state to another. `from`/`to`: 'empty', 'schema'
- * (prisma/schema.prisma), 'migrations' (the committed history) or a database file path.
+ * SQL that would take a database from one state to another, in the target's dialect. `from`/`to`:
+ * 'empty', 'schema' (prisma/schema.prisma, derived for the dialect), 'migrations' (the dialect's
+ * committed history, replayed on a shadow database) or 'database' (the target itself).
  */
-export async function diffSql(scratchDbFile: string, from: DiffSide, to: DiffSide): Promise<string> {
-  // A live database is reached through the engine's own adapter (the wasm engine takes no URLs),
-  // so the engine opens on that file when one side is a database.
-  const live = typeof from === 'object' ? from.dbFile : typeof to === 'object' ? to.dbFile : scratchDbFile;
-  const { engine, close } = await openSchemaEngine(live);
-  const target = (s: DiffSide) => {
+export async function diffSql(target: DbTarget | string, from: DiffSide, to: DiffSide): Promise<string> {
+  const t = asTarget(target);
+  const { engine, close } = await openSchemaEngine(t);
+  const schemaFile = { path: SCHEMA_PATH, content: readSchema(t.dialect) };
+  const side = (s: DiffSide) => {
     if (s === 'empty') return { tag: 'empty' as const };
-    if (s === 'schema') return { tag: 'schemaDatamodel' as const, files: [{ path: SCHEMA_PATH, content: readSchema() }] };
-    if (s === 'migrations') return { tag: 'migrations' as const, ...migrationList() };
-    return { tag: 'schemaDatasource' as const, files: [{ path: SCHEMA_PATH, content: readSchema() }], configDir: path.dirname(SCHEMA_PATH) };
+    if (s === 'schema') return { tag: 'schemaDatamodel' as const, files: [schemaFile] };
+    if (s === 'migrations') return { tag: 'migrations' as const, ...migrationList(t.dialect) };
+    return { tag: 'schemaDatasource' as const, files: [schemaFile], configDir: path.dirname(SCHEMA_PATH) };
   };
   try {
-    const r = await engine.diff({ from: target(from), to: target(to), script: true, exitCode: null, filters: NO_FILTER });
+    const r = await engine.diff({ from: side(from), to: side(to), script: true, exitCode: null, filters: NO_FILTER });
     return (r as { stdout?: string }).stdout ?? '';
   } finally {
     await close();
   }
 }
 
-export type DiffSide = 'empty' | 'schema' | 'migrations' | { dbFile: string };
+export type DiffSide = 'empty' | 'schema' | 'migrations' | 'database';
 
+/** True when a diff script changes nothing. */
+export function isEmptyDiff(sql: string): boolean {
+  return !sql.trim() || /^-- This is an empty migration/.test(sql.trim());
+}

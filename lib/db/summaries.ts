@@ -1,16 +1,21 @@
 import { createHash } from 'node:crypto';
 import type { PrismaClient } from './generated/client';
 import { loadCaseRecord } from './caseRecord';
+import { loadCaseRows, type CaseRows } from './caseRows';
+import { sqlOf } from './client';
+import type { Sql } from './sql';
 import { analyzeCase, getBuiltInRuleSet } from '@/lib/rules';
 import { appendAudit } from './audit';
+import { writeTx } from './tx';
+import { rebuildAllStatsMonths } from './statsMonths';
 import type { RuleSet } from '@/lib/domain/ruleSet';
 import type { Analysis } from '@/lib/domain/episode';
 import type { CaseRecord } from '@/lib/domain/caseRecord';
 
 /** The rule set a unit's screens use (built-in, or a saved version in RuleSetVersion). */
 export async function activeRuleSet(client: PrismaClient, unitId: string): Promise<RuleSet> {
-  const unit = await client.unit.findUnique({ where: { id: unitId }, select: { activeRuleSetId: true, activeRuleSetVersion: true } });
-  return resolveRuleSet(client, unit?.activeRuleSetId ?? 'plateau-default', unit?.activeRuleSetVersion ?? 1);
+  const unit = await sqlOf(client).get<{ activeRuleSetId: string; activeRuleSetVersion: number }>('SELECT "activeRuleSetId", "activeRuleSetVersion" FROM "Unit" WHERE "id" = ?', [unitId]);
+  return resolveRuleSet(client, unit?.activeRuleSetId ?? 'plateau-default', Number(unit?.activeRuleSetVersion ?? 1));
 }
 
 export async function resolveRuleSet(client: PrismaClient, id: string, version: number): Promise<RuleSet> {
@@ -28,59 +33,75 @@ export function inputHash(record: CaseRecord, ruleSet: RuleSet): string {
 
 /**
  * Recomputes a case's stored summary for a rule set when its inputs changed (derived data:
- * never edited by hand). Returns the analysis.
+ * never edited by hand). Returns the analysis. `rows`: the case's rows when the caller has just
+ * read them (the case sheet), so they are not read twice.
  */
-export async function refreshSummary(client: PrismaClient, caseId: string, now: Date, ruleSet?: RuleSet): Promise<Analysis | null> {
-  const record = await loadCaseRecord(client, caseId);
+export async function refreshSummary(client: PrismaClient, caseId: string, now: Date, ruleSet?: RuleSet, rows?: CaseRows): Promise<Analysis | null> {
+  const q = sqlOf(client);
+  const all = rows ?? (await loadCaseRows(q, caseId));
+  if (!all) return null;
+  const record = await loadCaseRecord(client, caseId, all);
   if (!record) return null;
-  const c = await client.case.findUnique({ where: { id: caseId }, select: { unitId: true } });
-  const rs = ruleSet ?? (await activeRuleSet(client, c!.unitId));
+  const rs = ruleSet ?? (await activeRuleSet(client, all.case.unitId));
   const hash = inputHash(record, rs);
-  const existing = await client.caseSummary.findUnique({ where: { caseId_ruleSetId_ruleSetVersion: { caseId, ruleSetId: rs.id, ruleSetVersion: rs.version } } });
+  const existing = await q.get<{ inputHash: string; analysisJson: string }>('SELECT "inputHash", "analysisJson" FROM "CaseSummary" WHERE "id" = ?', [summaryId(caseId, rs)]);
   if (existing && existing.inputHash === hash) return JSON.parse(existing.analysisJson) as Analysis;
   const analysis = analyzeCase(record, rs);
-  await storeSummary(client, caseId, rs, analysis, hash, now);
+  await storeSummary(q, caseId, rs, analysis, hash, now);
   return analysis;
 }
 
-async function storeSummary(client: PrismaClient, caseId: string, rs: RuleSet, a: Analysis, hash: string, now: Date) {
+const summaryId = (caseId: string, rs: RuleSet) => `${caseId}:${rs.id}:${rs.version}`;
+
+async function storeSummary(q: Sql, caseId: string, rs: RuleSet, a: Analysis, hash: string, now: Date) {
   const s = a.summary;
-  const id = `${caseId}:${rs.id}:${rs.version}`;
+  const id = summaryId(caseId, rs);
   const perRule = s.rules.map((r) => {
     const eps = a.episodes.filter((e) => e.rule === r.rule);
     const responses = eps.map((e) => e.responseS).filter((x): x is number => x !== null);
-    return {
+    return [
+      id,
       caseId,
-      ruleId: r.rule,
-      episodes: r.episodeCount,
-      totalDurationS: r.totalDurationS,
-      maxDurationS: eps.reduce((m, e) => Math.max(m, e.durationS), 0),
-      firstResponseS: eps.length && eps[0].responseS !== null ? eps[0].responseS : responses.length ? responses[0] : null,
-    };
+      r.rule,
+      r.episodeCount,
+      r.totalDurationS,
+      eps.reduce((m, e) => Math.max(m, e.durationS), 0),
+      eps.length && eps[0].responseS !== null ? eps[0].responseS : responses.length ? responses[0] : null,
+    ];
   });
   const firstApnea = a.episodes.find((e) => e.rule === 'apnea');
-  const data = {
-    caseId,
-    ruleSetId: rs.id,
-    ruleSetVersion: rs.version,
-    inputHash: hash,
-    computedAt: now,
-    caseLevel: s.caseLevel,
-    majorPhysiology: s.majorPhysiology,
-    episodeCount: s.episodeCount,
-    lowestSpo2: s.lowestSpo2?.value ?? null,
-    highestEtco2: s.highestEtco2?.value ?? null,
-    lowestEtco2: s.lowestEtco2?.value ?? null,
-    lowestRr: s.lowestRr?.value ?? null,
-    capnoCoveragePct: s.capnographyCoveragePct,
-    sedationS: s.sedationTime ? s.sedationTime.end - s.sedationTime.start : null,
-    firstApneaResponseS: firstApnea?.responseS ?? null,
-    analysisJson: JSON.stringify(a),
-  };
-  await client.$transaction([
-    client.caseSummary.deleteMany({ where: { id } }),
-    client.caseSummary.create({ data: { id, ...data, rules: { create: perRule } } }),
-  ]);
+  await q.tx(async (t) => {
+    await t.run('DELETE FROM "CaseSummaryRule" WHERE "summaryId" = ?', [id]);
+    await t.run('DELETE FROM "CaseSummary" WHERE "id" = ?', [id]);
+    await t.run(
+      `INSERT INTO "CaseSummary" ("id", "caseId", "ruleSetId", "ruleSetVersion", "inputHash", "computedAt", "caseLevel", "majorPhysiology", "episodeCount", "lowestSpo2", "highestEtco2", "lowestEtco2", "lowestRr", "capnoCoveragePct", "sedationS", "firstApneaResponseS", "analysisJson")
+       VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+      [
+        id,
+        caseId,
+        rs.id,
+        rs.version,
+        hash,
+        now,
+        s.caseLevel,
+        s.majorPhysiology,
+        s.episodeCount,
+        s.lowestSpo2?.value ?? null,
+        s.highestEtco2?.value ?? null,
+        s.lowestEtco2?.value ?? null,
+        s.lowestRr?.value ?? null,
+        s.capnographyCoveragePct,
+        s.sedationTime ? s.sedationTime.end - s.sedationTime.start : null,
+        firstApnea?.responseS ?? null,
+        JSON.stringify(a),
+      ],
+    );
+    await t.insertMany('CaseSummaryRule', ['summaryId', 'caseId', 'ruleId', 'episodes', 'totalDurationS', 'maxDurationS', 'firstResponseS'], perRule);
+    // A signed case's statistics row changed: drop its month's rollup for this version, which
+    // the next statistics read (or the bulk operation that called this) rebuilds.
+    const c = await t.get<{ status: string; unitId: string; scheduledDate: string }>('SELECT "status", "unitId", "scheduledDate" FROM "Case" WHERE "id" = ?', [caseId]);
+    if (c?.status === 'signed') await t.run('DELETE FROM "StatsMonth" WHERE "ruleSetId" = ? AND "ruleSetVersion" = ? AND "unitId" = ? AND "month" = ?', [rs.id, rs.version, c.unitId, c.scheduledDate.slice(0, 7)]);
+  });
 }
 
 /** Recomputes every case's summary for its unit's active rule set; returns how many. */
@@ -104,7 +125,7 @@ export async function recomputeAllSummaries(client: PrismaClient, now: Date, onP
  */
 export async function setActiveRuleSet(client: PrismaClient, unitId: string, ref: { id: string; version: number }, actor: { id: string; role: string; origin: string | null }, now: Date, onProgress?: (done: number, total: number) => void): Promise<{ recomputed: number }> {
   const rs = await resolveRuleSet(client, ref.id, ref.version);
-  await client.$transaction(async (tx) => {
+  await writeTx(client, async (tx) => {
     const before = await tx.unit.findUniqueOrThrow({ where: { id: unitId }, select: { activeRuleSetId: true, activeRuleSetVersion: true } });
     await tx.unit.update({ where: { id: unitId }, data: { activeRuleSetId: rs.id, activeRuleSetVersion: rs.version } });
     await appendAudit(tx, { at: now, actorId: actor.id, role: actor.role, action: 'update', entity: 'unit_rule_set', entityId: unitId, before, after: { activeRuleSetId: rs.id, activeRuleSetVersion: rs.version }, origin: actor.origin });
@@ -116,5 +137,6 @@ export async function setActiveRuleSet(client: PrismaClient, unitId: string, ref
     done++;
     onProgress?.(done, cases.length);
   }
+  await rebuildAllStatsMonths(client, rs, now, unitId);
   return { recomputed: done };
 }

@@ -1,5 +1,6 @@
 import type { PrismaClient } from './generated/client';
 import { appendAudit } from './audit';
+import { writeTx } from './tx';
 
 export interface NewUser {
   id: string;
@@ -17,7 +18,7 @@ export class DuplicateUsernameError extends Error {
 }
 
 export async function createUser(client: PrismaClient, u: NewUser, actor: { id: string | null; role: string | null; origin?: string | null }, now: Date) {
-  return client.$transaction(async (tx) => {
+  return writeTx(client, async (tx) => {
     const existing = await tx.user.findUnique({ where: { username: u.username } });
     if (existing) throw new DuplicateUsernameError(u.username);
     const user = await tx.user.create({ data: { ...u, createdById: actor.id, createdAt: now } });

@@ -3,16 +3,16 @@
  * each), and the analysis of a case's stored waveform (breaths, shape findings, derived trends),
  * computed on the fly — the per-breath trends are derived data and are not stored as samples.
  *
- * Writes go through a raw better-sqlite3 handle in one IMMEDIATE transaction with the
- * WaveformImport row and a hash-chained audit entry, like lib/db/sampleImport.ts.
+ * Writes go through the Sql port in one write transaction with the WaveformImport row and a
+ * hash-chained audit entry, like lib/db/sampleImport.ts.
  */
 import { createHash, randomUUID } from 'node:crypto';
-import type Database from 'better-sqlite3';
 import type { PrismaClient } from './generated/client';
 import { ConflictError, NotFoundError } from './cases';
-import { appendAuditRaw } from './auditRaw';
+import { appendAuditSql } from './auditSql';
 import { SignedCaseError, type Actor } from './sampleImport';
-import { databaseFile, isoDb, openRawDatabase } from './sqlite';
+import { sqlOf } from './client';
+import { asDate, isUniqueViolation, type Sql, type SqlValue } from './sql';
 import type { SampleSeries } from '@/lib/domain/caseRecord';
 import { analyzeCapnogram, downsampleMinMax, parseWaveformCsv, type Breath, type CapnogramResult, type ShapeFinding, type WaveformGap, type WaveformSegment } from '@/lib/capnogram';
 
@@ -72,19 +72,12 @@ function decodeInto(out: Float32Array, at: number, bytes: Uint8Array, count: num
   for (let i = 0; i < count; i++) out[at + i] = dv.getFloat32(i * 4, true);
 }
 
-const rawHandles = globalThis as unknown as { plateauWaveRaw?: { file: string; db: Database.Database } };
-function rawDb(): Database.Database {
-  const file = databaseFile();
-  if (!rawHandles.plateauWaveRaw || rawHandles.plateauWaveRaw.file !== file || !rawHandles.plateauWaveRaw.db.open) rawHandles.plateauWaveRaw = { file, db: openRawDatabase(file) };
-  return rawHandles.plateauWaveRaw.db;
-}
-
 /**
  * Imports a raw CO2 CSV into a case, all or nothing. Throws WaveformError (unreadable file, wrong
  * rate: 422), NotFoundError, SignedCaseError, DuplicateWaveformError, ConflictError (overlaps a
  * waveform already stored for the case).
  */
-export async function importWaveformCsv(client: PrismaClient, input: ImportWaveformInput, actor: Actor, now: Date, opts: { raw?: Database.Database } = {}): Promise<ImportWaveformResult> {
+export async function importWaveformCsv(client: PrismaClient, input: ImportWaveformInput, actor: Actor, now: Date): Promise<ImportWaveformResult> {
   const pre = await client.case.findUnique({ where: { id: input.caseId }, select: { status: true } });
   if (!pre) throw new NotFoundError(`case ${input.caseId} not found`);
   if (pre.status === 'signed') throw new SignedCaseError();
@@ -93,52 +86,51 @@ export async function importWaveformCsv(client: PrismaClient, input: ImportWavef
   const rate = parsed.rateHz;
   const per = Math.round(CHUNK_S * rate);
   const offsetS = input.clockOffsetS + parsed.fileT0S;
-  const raw = opts.raw ?? rawDb();
+  const q = sqlOf(client);
   const importId = randomUUID();
-  const nowIso = isoDb(now);
-  const run = raw.transaction((): ImportWaveformResult => {
-    const c = raw.prepare('SELECT status, startAt FROM "Case" WHERE id = ?').get(input.caseId) as { status: string; startAt: string } | undefined;
-    if (!c) throw new NotFoundError(`case ${input.caseId} not found`);
-    if (c.status === 'signed') throw new SignedCaseError();
-    const dup = raw.prepare('SELECT id, fileName FROM WaveformImport WHERE caseId = ? AND fileHash = ?').get(input.caseId, fileHash) as { id: string; fileName: string } | undefined;
-    if (dup) throw new DuplicateWaveformError(dup.id, dup.fileName);
-    const caseStartMs = Date.parse(c.startAt);
-    const t0Ms = caseStartMs + offsetS * 1000;
-    const endMs = t0Ms + (parsed.v.length / rate) * 1000;
-    const overlap = raw
-      .prepare("SELECT COUNT(*) AS n FROM WaveformChunk WHERE caseId = ? AND channel = 'co2' AND startMs < ? AND startMs + count * 1000.0 / rateHz > ?")
-      .get(input.caseId, endMs, t0Ms) as { n: number };
-    if (overlap.n > 0) throw new ConflictError('clockOffsetS: this waveform overlaps one already stored for the case; check the clock offset');
-    raw.prepare('INSERT INTO WaveformImport (id, caseId, fileHash, fileName, rateHz, samples, createdAt, createdById) VALUES (?, ?, ?, ?, ?, ?, ?, ?)').run(importId, input.caseId, fileHash, input.fileName, rate, parsed.rows, nowIso, actor.id);
-    const insert = raw.prepare("INSERT INTO WaveformChunk (id, caseId, channel, startMs, rateHz, count, data, source, importId, createdAt, createdById) VALUES (?, ?, 'co2', ?, ?, ?, ?, 'csv', ?, ?, ?)");
-    let chunks = 0;
-    for (let k = 0; k < parsed.v.length; k += per) {
-      const part = parsed.v.subarray(k, Math.min(parsed.v.length, k + per));
-      let any = false;
-      for (let i = 0; i < part.length && !any; i++) any = part[i] === part[i];
-      if (!any) continue; // a chunk of nothing but gap is not stored
-      insert.run(randomUUID(), input.caseId, t0Ms + (k / rate) * 1000, rate, part.length, encode(part), importId, nowIso, actor.id);
-      chunks++;
-    }
-    appendAuditRaw(raw, {
-      at: now,
-      actorId: actor.id,
-      role: actor.role,
-      action: 'import',
-      entity: 'waveform_import',
-      entityId: importId,
-      caseId: input.caseId,
-      after: { fileName: input.fileName, fileHash, rateHz: rate, unit: input.unit, clockOffsetS: input.clockOffsetS, samples: parsed.rows, chunks, badValues: parsed.badValues, gapSamples: parsed.gapSamples },
-      origin: actor.origin,
-    });
-    return { importId, samples: parsed.rows, chunks, startS: offsetS, endS: offsetS + parsed.v.length / rate, badValues: parsed.badValues, gapSamples: parsed.gapSamples, breaths: 0, findings: 0 };
-  });
+  const findDup = (on: Sql) => on.get<{ id: string; fileName: string }>('SELECT "id", "fileName" FROM "WaveformImport" WHERE "caseId" = ? AND "fileHash" = ?', [input.caseId, fileHash]);
   let r: ImportWaveformResult;
   try {
-    r = run.immediate();
+    r = await q.tx(async (t): Promise<ImportWaveformResult> => {
+      const c = await t.get<{ status: string; startAt: unknown }>('SELECT "status", "startAt" FROM "Case" WHERE "id" = ?', [input.caseId]);
+      if (!c) throw new NotFoundError(`case ${input.caseId} not found`);
+      if (c.status === 'signed') throw new SignedCaseError();
+      const dup = await findDup(t);
+      if (dup) throw new DuplicateWaveformError(dup.id, dup.fileName);
+      const caseStartMs = asDate(c.startAt).getTime();
+      const t0Ms = caseStartMs + offsetS * 1000;
+      const endMs = t0Ms + (parsed.v.length / rate) * 1000;
+      const overlap = await t.get<{ n: number }>(
+        `SELECT COUNT(*) AS "n" FROM "WaveformChunk" WHERE "caseId" = ? AND "channel" = 'co2' AND "startMs" < ? AND "startMs" + "count" * 1000.0 / "rateHz" > ?`,
+        [input.caseId, endMs, t0Ms],
+      );
+      if (Number(overlap?.n ?? 0) > 0) throw new ConflictError('clockOffsetS: this waveform overlaps one already stored for the case; check the clock offset');
+      await t.run('INSERT INTO "WaveformImport" ("id", "caseId", "fileHash", "fileName", "rateHz", "samples", "createdAt", "createdById") VALUES (?, ?, ?, ?, ?, ?, ?, ?)', [importId, input.caseId, fileHash, input.fileName, rate, parsed.rows, now, actor.id]);
+      const chunks: SqlValue[][] = [];
+      for (let k = 0; k < parsed.v.length; k += per) {
+        const part = parsed.v.subarray(k, Math.min(parsed.v.length, k + per));
+        let any = false;
+        for (let i = 0; i < part.length && !any; i++) any = part[i] === part[i];
+        if (!any) continue; // a chunk of nothing but gap is not stored
+        chunks.push([randomUUID(), input.caseId, 'co2', t0Ms + (k / rate) * 1000, rate, part.length, encode(part), 'csv', importId, now, actor.id]);
+      }
+      await t.insertMany('WaveformChunk', ['id', 'caseId', 'channel', 'startMs', 'rateHz', 'count', 'data', 'source', 'importId', 'createdAt', 'createdById'], chunks);
+      await appendAuditSql(t, {
+        at: now,
+        actorId: actor.id,
+        role: actor.role,
+        action: 'import',
+        entity: 'waveform_import',
+        entityId: importId,
+        caseId: input.caseId,
+        after: { fileName: input.fileName, fileHash, rateHz: rate, unit: input.unit, clockOffsetS: input.clockOffsetS, samples: parsed.rows, chunks: chunks.length, badValues: parsed.badValues, gapSamples: parsed.gapSamples },
+        origin: actor.origin,
+      });
+      return { importId, samples: parsed.rows, chunks: chunks.length, startS: offsetS, endS: offsetS + parsed.v.length / rate, badValues: parsed.badValues, gapSamples: parsed.gapSamples, breaths: 0, findings: 0 };
+    });
   } catch (e) {
-    if (e instanceof Error && 'code' in e && e.code === 'SQLITE_CONSTRAINT_UNIQUE' && /WaveformImport/.test(e.message)) {
-      const dup = raw.prepare('SELECT id, fileName FROM WaveformImport WHERE caseId = ? AND fileHash = ?').get(input.caseId, fileHash) as { id: string; fileName: string } | undefined;
+    if (isUniqueViolation(e)) {
+      const dup = await findDup(q);
       if (dup) throw new DuplicateWaveformError(dup.id, dup.fileName);
     }
     throw e;

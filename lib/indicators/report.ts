@@ -14,7 +14,7 @@
 import type { StatsRow } from '@/lib/domain/statsRow';
 import type { RuleSetRef } from '@/lib/domain/ruleSet';
 import { median, newcombeDifference, pChart, quantile, specialCauses, wilsonInterval, type SpecialCauseRule } from '@/lib/stats';
-import { describeIndicator, type Catalogue, type Indicator, type IndicatorDefinition } from './catalogue';
+import { describeIndicator, type Catalogue, type Criterion, type Indicator, type IndicatorDefinition } from './catalogue';
 import { formatCount, formatDifference, formatInterval, formatNumber, roundTo, unitScale } from './format';
 import { periodContaining, periodsEndingWith, shiftPeriod, shortPeriod, yearEarlier, type Period } from './period';
 import { DEFAULT_MIN_CELL, numeratorDisplay, suppressionOf, type Suppression } from './suppression';
@@ -162,32 +162,66 @@ interface Raw {
   parent: number;
 }
 
-function rawOf(ind: Indicator, rows: readonly StatsRow[]): Raw {
-  const raw: Raw = { x: 0, n: 0, values: [], parent: 0 };
-  const pop = ind.population;
+/**
+ * The raw counts of several indicators in one pass over the rows: a case's data is read once
+ * for every indicator (one pass per indicator costs several times more in memory traffic at
+ * 100,000 cases than the tests themselves), and a criterion several indicators share (the same
+ * object in the catalogue) is asked once per case. With `exclusions`, also counts, per
+ * indicator, the cases failing each criterion first.
+ */
+function rawsOf(inds: readonly Indicator[], rows: readonly StatsRow[], exclusions?: Map<string, number>[]): Raw[] {
+  const raws: Raw[] = inds.map(() => ({ x: 0, n: 0, values: [], parent: 0 }));
+  const criteria: Criterion[] = [];
+  const slot = new Map<Criterion, number>();
+  const pops = inds.map((ind) =>
+    ind.population.map((c) => {
+      let i = slot.get(c);
+      if (i === undefined) {
+        slot.set(c, (i = criteria.length));
+        criteria.push(c);
+      }
+      return i;
+    }),
+  );
+  // Per case: 0 = not asked yet, 1 = holds, 2 = fails.
+  const seen = new Uint8Array(criteria.length);
+  const holds = (r: StatsRow, i: number) => {
+    if (seen[i] === 0) seen[i] = criteria[i].test(r) ? 1 : 2;
+    return seen[i] === 1;
+  };
   for (const r of rows) {
-    let ok = true;
-    for (let i = 0; i < pop.length - 1 && ok; i++) ok = pop[i].test(r);
-    if (!ok) continue;
-    raw.parent++;
-    if (pop.length > 0 && !pop[pop.length - 1].test(r)) continue;
-    raw.n++;
-    if (ind.kind === 'proportion') {
-      if (ind.numerator.test(r)) raw.x++;
-    } else {
-      const v = ind.value.of(r);
-      if (v !== null && Number.isFinite(v)) raw.values.push(v);
+    seen.fill(0);
+    for (let k = 0; k < inds.length; k++) {
+      const ind = inds[k];
+      const raw = raws[k];
+      const pop = pops[k];
+      let failed = -1;
+      for (let i = 0; i < pop.length - 1; i++) {
+        if (!holds(r, pop[i])) {
+          failed = i;
+          break;
+        }
+      }
+      if (failed === -1) raw.parent++;
+      if (failed === -1 && pop.length > 0 && !holds(r, pop[pop.length - 1])) failed = pop.length - 1;
+      if (failed !== -1) {
+        const c = ind.population[failed];
+        if (exclusions && !c.event) exclusions[k].set(c.id, (exclusions[k].get(c.id) ?? 0) + 1);
+        continue;
+      }
+      raw.n++;
+      if (ind.kind === 'proportion') {
+        if (ind.numerator.test(r)) raw.x++;
+      } else {
+        const v = ind.value.of(r);
+        if (v !== null && Number.isFinite(v)) raw.values.push(v);
+      }
     }
   }
-  return raw;
+  return raws;
 }
 
-function exclusionsOf(ind: Indicator, rows: readonly StatsRow[]): Exclusion[] {
-  const counts = new Map<string, number>();
-  for (const r of rows) {
-    const failed = ind.population.find((c) => !c.test(r));
-    if (failed && !failed.event) counts.set(failed.id, (counts.get(failed.id) ?? 0) + 1);
-  }
+function exclusionsFrom(ind: Indicator, counts: Map<string, number>): Exclusion[] {
   return ind.population.filter((c) => !c.event).map((c) => ({ criterion: c.id, reason: c.excluded, count: counts.get(c.id) ?? 0 }));
 }
 
@@ -315,9 +349,12 @@ function runChart(series: { cell: Cell }[]): IndicatorChart {
 
 function groupByPeriod(rows: readonly StatsRow[], kind: Period['kind'], unitIds: ReadonlySet<string>): Map<string, StatsRow[]> {
   const by = new Map<string, StatsRow[]>();
+  // A year has 365 dates and 100,000 cases: the period of each date is worked out once.
+  const labelOf = new Map<string, string>();
   for (const r of rows) {
     if (!unitIds.has(r.unitId)) continue;
-    const label = periodContaining(kind, r.date).label;
+    let label = labelOf.get(r.date);
+    if (label === undefined) labelOf.set(r.date, (label = periodContaining(kind, r.date).label));
     let list = by.get(label);
     if (!list) by.set(label, (list = []));
     list.push(r);
@@ -349,9 +386,18 @@ export function buildIndicatorReport(input: BuildReportInput): IndicatorReport {
   const rowsOf = (p: Period) => byPeriod.get(p.label) ?? [];
   const current = rowsOf(period);
 
-  const indicators = catalogue.indicators.map((ind): IndicatorResult => {
+  // Every indicator's raw counts per period, each period's rows walked once for all indicators
+  // (the report period's walk also counts the exclusions).
+  const exclusions = catalogue.indicators.map(() => new Map<string, number>());
+  const rawsByPeriod = new Map<string, Raw[]>([[period.label, rawsOf(catalogue.indicators, current, exclusions)]]);
+  const rawAt = (p: Period, k: number): Raw => {
+    let raws = rawsByPeriod.get(p.label);
+    if (!raws) rawsByPeriod.set(p.label, (raws = rawsOf(catalogue.indicators, rowsOf(p))));
+    return raws[k];
+  };
+  const indicators = catalogue.indicators.map((ind, k): IndicatorResult => {
     const at = (p: Period) => {
-      const raw = rawOf(ind, rowsOf(p));
+      const raw = rawAt(p, k);
       return { raw, cell: cellOf(ind, p, raw, minCell, confidence) };
     };
     const series = periods.map(at);
@@ -363,7 +409,7 @@ export function buildIndicatorReport(input: BuildReportInput): IndicatorReport {
       current: cur.cell,
       previous: compare(ind, cur, find(prev), confidence),
       yearEarlier: compare(ind, cur, find(ye), confidence),
-      excluded: exclusionsOf(ind, current),
+      excluded: exclusionsFrom(ind, exclusions[k]),
       chart: ind.kind === 'proportion' ? proportionChart(ind, series, minCell) : runChart(series),
       series: series.map((s) => s.cell),
     };
@@ -419,11 +465,14 @@ export function buildIndicatorSeries(input: { catalogue: Catalogue; periods: rea
     minCell,
     confidence,
     generatedOn: input.generatedOn,
-    indicators: input.catalogue.indicators.map((ind) => ({
-      id: ind.id,
-      definition: describeIndicator(ind, input.catalogue),
-      cells: input.periods.map((p) => cellOf(ind, p, rawOf(ind, byPeriod.get(p.label) ?? []), minCell, confidence)),
-    })),
+    indicators: (() => {
+      const raws = new Map(input.periods.map((p) => [p.label, rawsOf(input.catalogue.indicators, byPeriod.get(p.label) ?? [])]));
+      return input.catalogue.indicators.map((ind, k) => ({
+        id: ind.id,
+        definition: describeIndicator(ind, input.catalogue),
+        cells: input.periods.map((p) => cellOf(ind, p, raws.get(p.label)![k], minCell, confidence)),
+      }));
+    })(),
   };
 }
 

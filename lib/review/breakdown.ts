@@ -2,6 +2,7 @@ import type { StatsRow } from '@/lib/domain/statsRow';
 import { proportion, type Proportion } from './proportion';
 import { hasSummary, type FigureDef, type FigureId, type SummarisedRow } from './figures';
 import { compareDimensionValues, dimensionValue, type DimensionId } from './dimensions';
+import { countFigures } from './headline';
 
 export interface BreakdownRow {
   key: string;
@@ -41,11 +42,8 @@ export function breakdown(rows: readonly StatsRow[], dimension: DimensionId, fig
   }
   const row = (key: string, label: string, members: SummarisedRow[]): BreakdownRow => {
     const cells: Record<FigureId, Proportion> = {};
-    for (const f of figures) {
-      let x = 0;
-      for (const m of members) if (f.test(m)) x++;
-      cells[f.id] = proportion(x, members.length);
-    }
+    const x = countFigures(members, figures);
+    figures.forEach((f, i) => (cells[f.id] = proportion(x[i], members.length)));
     return { key, label, cases: members.length, cells };
   };
   const out = [...groups.entries()].map(([key, g]) => row(key, g.label, g.rows));

@@ -43,8 +43,18 @@ export interface HeadlineOptions {
 
 /** Counts the cases of `rows` answering yes to `figure`. */
 export function countFigure(rows: readonly SummarisedRow[], figure: FigureDef): number {
-  let x = 0;
-  for (const r of rows) if (figure.test(r)) x++;
+  return countFigures(rows, [figure])[0];
+}
+
+/**
+ * Counts the cases answering yes to each figure, in one pass over the rows: each case's data is
+ * read once for all figures (at 100,000 cases, walking the rows once per figure costs several
+ * times more in memory traffic than the tests themselves).
+ */
+export function countFigures(rows: readonly SummarisedRow[], figures: readonly FigureDef[]): number[] {
+  const x = new Array<number>(figures.length).fill(0);
+  const tests = figures.map((f) => f.test);
+  for (const r of rows) for (let i = 0; i < tests.length; i++) if (tests[i](r)) x[i]++;
   return x;
 }
 
@@ -61,16 +71,22 @@ export function reviewHeadline(rows: readonly StatsRow[], options: HeadlineOptio
   const reviewed = rows.filter(hasSummary);
   const ruleIds = [...(options.ruleIds ?? ruleIdsOf(reviewed))];
   const n = reviewed.length;
-  const figures = figureCatalogue(ruleIds, options.responseLimitS).map((f) => ({
+  const catalogue = figureCatalogue(ruleIds, options.responseLimitS);
+  const counts = countFigures(reviewed, catalogue);
+  const figures = catalogue.map((f, i) => ({
     id: f.id,
     label: f.label,
     meaning: f.meaning,
     group: f.group,
-    ...proportion(countFigure(reviewed, f), n),
+    ...proportion(counts[i], n),
   }));
-  const episodeRates = ruleIds.map((ruleId) => {
-    let episodes = 0;
-    for (const r of reviewed) episodes += r.summary.rules[ruleId]?.episodes ?? 0;
+  const totals = new Array<number>(ruleIds.length).fill(0);
+  for (const r of reviewed) {
+    const rules = r.summary.rules;
+    for (let k = 0; k < ruleIds.length; k++) totals[k] += rules[ruleIds[k]]?.episodes ?? 0;
+  }
+  const episodeRates = ruleIds.map((ruleId, k) => {
+    const episodes = totals[k];
     const i = n > 0 ? poissonRateInterval(episodes, n, { per: 1000 }) : null;
     return { ruleId, episodes, cases: n, per1000: i ? i.estimate : null, lower: i ? i.lower : null, upper: i ? i.upper : null };
   });

@@ -5,6 +5,7 @@ import { isRole, type Role } from './roles';
 import { dummyHash, verifyPassword } from './password';
 import { now } from './clock';
 import { lockoutMessage, rateLimitConfig, recordSignInAttempt, signInLock } from './rateLimit';
+import { writeTx } from '@/lib/db/tx';
 
 export type SignInResult = { ok: true; userId: string; role: Role } | { ok: false; error: string; lockedUntil?: Date };
 
@@ -22,14 +23,14 @@ export async function checkCredentials(username: string, password: string, origi
   const t = now();
   const lock = await signInLock(client, username, origin, t, rateLimitConfig());
   if (lock.locked) {
-    await client.$transaction(async (tx) => {
+    await writeTx(client, async (tx) => {
       await appendAudit(tx, { at: t, actorId: null, role: null, action: 'sign_in_locked', entity: 'session', entityId: null, after: { username, scope: lock.scope, until: lock.until.toISOString() }, origin });
     });
     return { ok: false, error: lockoutMessage(lock, t), lockedUntil: lock.until };
   }
   const user = await findUserByUsername(client, username);
   const valid = user && user.active ? await verifyPassword(user.passwordHash, password) : (await verifyPassword(await dummyHash(), password), false);
-  await client.$transaction(async (tx) => {
+  await writeTx(client, async (tx) => {
     await recordSignInAttempt(tx, username, origin, t, Boolean(valid));
     await appendAudit(tx, {
       at: t,

@@ -1,5 +1,6 @@
 import { ZodError, type z } from 'zod';
 import { zodMessage } from '@/lib/_shared/zodMessage';
+import { nulCharacterAt } from '@/lib/_shared/nulCharacter';
 
 /** An error a handler maps to a status with a message the user can act on. */
 export class HttpError extends Error {
@@ -21,6 +22,8 @@ export async function parseJson<T extends z.ZodType>(req: Request, schema: T): P
     if (e instanceof HttpError) throw e;
     throw new HttpError(400, 'body: not valid JSON');
   }
+  const nul = nulCharacterAt(body);
+  if (nul) throw new HttpError(422, `${nul}: contains a NUL character (U+0000), which cannot be stored`);
   return schema.parse(body);
 }
 
@@ -28,6 +31,11 @@ export async function parseJson<T extends z.ZodType>(req: Request, schema: T): P
 export function errorResponse(e: unknown): Response {
   if (e instanceof ZodError) return Response.json({ error: zodMessage(e) }, { status: 422 });
   if (e instanceof HttpError) return Response.json({ error: e.message }, { status: e.status });
+  // A NUL in a query parameter reaches PostgreSQL, which refuses it (SQLite would not): the
+  // request was at fault, not the server, and nothing was written.
+  if (e instanceof Error && /invalid byte sequence for encoding "UTF8": 0x00|\u0000 cannot be converted/.test(e.message)) {
+    return Response.json({ error: 'a value contains a NUL character (U+0000), which cannot be stored or searched for' }, { status: 422 });
+  }
   console.error('unhandled error', e instanceof Error ? e.message : 'unknown');
   return Response.json({ error: 'internal error; nothing was saved' }, { status: 500 });
 }

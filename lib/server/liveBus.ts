@@ -2,9 +2,10 @@
  * Live feed helpers shared by the MLLP listener and the app: a per-case debounced summary refresh
  * (the episode panel reads CaseSummary), and the DB poll behind the SSE stream. No in-memory
  * state carries samples: the stream reads new Sample ids from the database, so a second app
- * instance sees what the listener wrote.
+ * instance sees what the listener wrote. (On PostgreSQL sample ids are taken inside the write
+ * lock, so they commit in increasing order and a poll by id never skips one.)
  */
-import type Database from 'better-sqlite3';
+import type { Sql } from '@/lib/db/sql';
 import type { PrismaClient } from '@/lib/db/generated/client';
 import { refreshSummary } from '@/lib/db/summaries';
 
@@ -51,27 +52,21 @@ export interface LiveSampleRow {
 }
 
 /** Monitor and manual samples of a case after sample id `after`, oldest first. */
-export function samplesAfter(raw: Database.Database, caseId: string, after: number, limit = 2000): LiveSampleRow[] {
-  return raw.prepare('SELECT id, channel, atMs, value, source FROM Sample WHERE caseId = ? AND id > ? ORDER BY id LIMIT ?').all(caseId, after, limit) as LiveSampleRow[];
+export async function samplesAfter(q: Sql, caseId: string, after: number, limit = 2000): Promise<LiveSampleRow[]> {
+  const rows = await q.all<LiveSampleRow>('SELECT "id", "channel", "atMs", "value", "source" FROM "Sample" WHERE "caseId" = ? AND "id" > ? ORDER BY "id" LIMIT ?', [caseId, after, limit]);
+  return rows.map((r) => ({ id: Number(r.id), channel: r.channel, atMs: Number(r.atMs), value: Number(r.value), source: r.source }));
 }
 
 /** The highest sample id of a case (where a new stream starts when the client names none). */
-export function lastSampleId(raw: Database.Database, caseId: string): number {
-  return (raw.prepare('SELECT COALESCE(MAX(id), 0) AS id FROM Sample WHERE caseId = ?').get(caseId) as { id: number }).id;
+export async function lastSampleId(q: Sql, caseId: string): Promise<number> {
+  const r = await q.get<{ id: number | string | null }>('SELECT COALESCE(MAX("id"), 0) AS "id" FROM "Sample" WHERE "caseId" = ?', [caseId]);
+  return Number(r?.id ?? 0);
 }
 
-const globalForLive = globalThis as unknown as { plateauLive?: { file: string; raw: Database.Database; debouncer: SummaryDebouncer | null } };
+const globalForLive = globalThis as unknown as { plateauAppDebouncer?: SummaryDebouncer };
 
-/** The app process's raw handle for the live feed (one per database file). */
-export function liveRaw(file: string, open: (file: string) => Database.Database): Database.Database {
-  if (!globalForLive.plateauLive || globalForLive.plateauLive.file !== file) globalForLive.plateauLive = { file, raw: open(file), debouncer: null };
-  return globalForLive.plateauLive.raw;
-}
-
-/** The app process's summary debouncer (HTTP ingest and inbox attach). */
+/** The app process's summary debouncer (HTTP ingest and inbox attach): one per process. */
 export function appDebouncer(client: () => PrismaClient): SummaryDebouncer {
-  const g = globalForLive.plateauLive;
-  if (!g) return new SummaryDebouncer(client);
-  g.debouncer ??= new SummaryDebouncer(client);
-  return g.debouncer;
+  globalForLive.plateauAppDebouncer ??= new SummaryDebouncer(client);
+  return globalForLive.plateauAppDebouncer;
 }

@@ -3,7 +3,9 @@
  *
  * handleHl7Text: parse → authenticate/route/store in one transaction → ACK. A message that fails
  * to parse or to authenticate writes nothing and is answered AE/AR with an ERR segment naming the
- * segment and field. AA only after commit.
+ * segment and field. AA only after commit. The store's write transaction waits for the database's
+ * write lock asynchronously (lib/db/sqlite.ts, lib/db/postgres.ts), so while another process (the
+ * app, the summary worker) holds it, other connections are still served.
  *
  * startMllpServer: TCP listener; a connection from an address outside the allow list is closed
  * before any byte is read. Messages on one connection are handled in order (MLLP is
@@ -11,15 +13,13 @@
  */
 import net from 'node:net';
 import { randomUUID } from 'node:crypto';
-import type Database from 'better-sqlite3';
 import { buildAck, parseHl7, Hl7ParseError, type AckError, type Hl7Message } from '@/lib/ingest/hl7';
 import { MllpDecoder, mllpFrame } from '@/lib/ingest/mllp';
 import { Hl7Store, UnknownDeviceError, type Hl7Sender, type StoreResult } from '@/lib/db/hl7Store';
+import type { Sql } from '@/lib/db/sql';
 
 export interface HandleOptions {
   now?: () => Date;
-  /** Called instead of answering when the database was busy (the caller retries). */
-  onBusy?: () => void;
   defaultZoneOffsetMinutes?: number;
   onStored?: (r: StoreResult, m: Hl7Message) => void;
 }
@@ -40,7 +40,32 @@ function roughHeader(text: string): { controlId: string; sendingApp: string; sen
   return { controlId: c(f[9]), sendingApp: c(f[2]), sendingFacility: c(f[3]), version: c(f[11]) };
 }
 
-export function handleHl7Text(store: Hl7Store, text: string, sender: Hl7Sender, opts: HandleOptions = {}): HandleResult {
+/**
+ * Where a message's first NUL character sits, or null. HL7 text has no use for one (control
+ * characters are escaped), and PostgreSQL cannot store one in a text column, so a message with a
+ * NUL is refused on either database, naming the segment and field, instead of failing in storage
+ * ("send again", forever). The segment ids are valid here: the message parsed.
+ */
+function nulError(text: string, fieldSep: string): AckError | null {
+  if (!text.includes('\0')) return null;
+  const seen = new Map<string, number>();
+  for (const line of text.replace(/^\uFEFF/, '').split(/\r\n|\r|\n/)) {
+    if (line.length === 0) continue;
+    const id = line.slice(0, 3);
+    const occurrence = (seen.get(id) ?? 0) + 1;
+    seen.set(id, occurrence);
+    const at = line.indexOf('\0');
+    if (at < 0) continue;
+    const k = line.slice(0, at).split(fieldSep).length - 1;
+    // MSH-1 is the field separator itself, so MSH's fields count one further.
+    const field = id === 'MSH' ? k + 1 : k === 0 ? null : k;
+    const where = `${id}${occurrence > 1 || id === 'OBX' ? `[${occurrence}]` : ''}${field === null ? '' : `-${field}`}`;
+    return { segment: id, occurrence, field, code: 102, text: `${where}: contains a NUL character` };
+  }
+  return null;
+}
+
+export async function handleHl7Text(store: Hl7Store, text: string, sender: Hl7Sender, opts: HandleOptions = {}): Promise<HandleResult> {
   const now = (opts.now ?? (() => new Date()))();
   const ackId = randomUUID().replace(/-/g, '').slice(0, 20);
   let m: Hl7Message;
@@ -57,44 +82,30 @@ export function handleHl7Text(store: Hl7Store, text: string, sender: Hl7Sender, 
     return { ack: buildAck('AR', input, { segment: 'MSH', occurrence: 1, field: null, code: 207, text: 'message could not be read' }), code: 'AR', error: 'unreadable' };
   }
   const input = { controlId: m.header.controlId, sendingApp: m.header.sendingApp, sendingFacility: m.header.sendingFacility, version: m.header.version, at: now, ackControlId: ackId };
+  const nul = nulError(text, m.header.delimiters.field);
+  if (nul) {
+    const code = nul.segment === 'MSH' ? 'AR' : 'AE';
+    return { ack: buildAck(code, input, nul), code, error: nul.text };
+  }
+  let r: StoreResult;
   try {
-    const r = store.store(m, text, sender, now);
-    opts.onStored?.(r, m);
-    const note = r.status === 'duplicate' ? `duplicate of ${r.duplicateOf}; stored once` : r.status === 'unmatched' ? `no case in progress for ${m.location ?? 'this device'}; ${r.stored} samples kept in the unmatched inbox` : `${r.stored} samples stored`;
-    return { ack: buildAck('AA', input, undefined, note), code: 'AA', result: r };
+    r = await store.store(m, text, sender, now);
   } catch (e) {
     if (e instanceof UnknownDeviceError) {
       const field = e.message.startsWith('MSH-8') ? 8 : 4;
       return { ack: buildAck('AR', input, { segment: 'MSH', occurrence: 1, field, code: 204, text: e.message }), code: 'AR', error: e.message };
     }
-    if (opts.onBusy && isBusy(e)) {
-      opts.onBusy();
-      return { ack: '', code: 'AE', error: 'busy' };
-    }
     console.error('hl7 store failed:', e instanceof Error ? e.message : e);
     return { ack: buildAck('AE', input, { segment: 'MSH', occurrence: 1, field: null, code: 207, text: 'storage failed; nothing was saved, send again' }), code: 'AE', error: 'storage failed' };
   }
-}
-
-function isBusy(e: unknown): boolean {
-  const code = (e as { code?: string } | null)?.code ?? '';
-  return code === 'SQLITE_BUSY' || code.startsWith('SQLITE_BUSY_');
-}
-
-/**
- * handleHl7Text for a listener whose handle has busy_timeout = 0: when another process (the app,
- * the summary worker) holds the write lock, retry every millisecond without blocking the event
- * loop, instead of SQLite's busy handler, which sleeps the whole thread in steps of up to 100 ms.
- */
-export async function handleHl7TextRetrying(store: Hl7Store, text: string, sender: Hl7Sender, opts: HandleOptions & { maxWaitMs?: number } = {}): Promise<HandleResult> {
-  const deadline = Date.now() + (opts.maxWaitMs ?? 10_000);
-  for (;;) {
-    let busy = false;
-    const r = handleHl7Text(store, text, sender, { ...opts, onBusy: () => (busy = true) } as HandleOptions);
-    if (!busy) return r;
-    if (Date.now() > deadline) return handleHl7Text(store, text, sender, { ...opts, onBusy: undefined });
-    await new Promise((res) => setTimeout(res, 1));
+  // Committed: whatever the follow-up does, the answer is AA.
+  try {
+    opts.onStored?.(r, m);
+  } catch (e) {
+    console.error('hl7 onStored failed:', e instanceof Error ? e.message : e);
   }
+  const note = r.status === 'duplicate' ? `duplicate of ${r.duplicateOf}; stored once` : r.status === 'unmatched' ? `no case in progress for ${m.location ?? 'this device'}; ${r.stored} samples kept in the unmatched inbox` : `${r.stored} samples stored`;
+  return { ack: buildAck('AA', input, undefined, note), code: 'AA', result: r };
 }
 
 export interface MllpServerOptions extends HandleOptions {
@@ -117,10 +128,9 @@ export function normaliseAddress(a: string | undefined): string {
   return a.startsWith('::ffff:') ? a.slice(7) : a;
 }
 
-/** Starts the listener. Sets busy_timeout = 0 on `raw`: waits for the write lock are retried asynchronously. */
-export async function startMllpServer(raw: Database.Database, opts: MllpServerOptions): Promise<MllpServer> {
-  raw.pragma('busy_timeout = 0');
-  const store = new Hl7Store(raw);
+/** Starts the listener, storing through the Sql port `q`. */
+export async function startMllpServer(q: Sql, opts: MllpServerOptions): Promise<MllpServer> {
+  const store = new Hl7Store(q);
   const allow = new Set(opts.allow.map(normaliseAddress));
   const log = opts.log ?? (() => undefined);
   const sockets = new Set<net.Socket>();
@@ -143,10 +153,10 @@ export async function startMllpServer(raw: Database.Database, opts: MllpServerOp
             sock.write(mllpFrame(buildAck('AR', { controlId: '', at: new Date(), ackControlId: randomUUID().slice(0, 20) }, { segment: 'MSH', occurrence: 1, field: null, code: 207, text: `message larger than the limit (${ev.bytes} bytes)` })));
             return;
           }
-          const r = await handleHl7TextRetrying(store, ev.text, { kind: 'mllp', address: addr }, opts);
+          const r = await handleHl7Text(store, ev.text, { kind: 'mllp', address: addr }, opts);
           if (r.code !== 'AA') log(`${addr}: ${r.code} ${r.error}`);
           if (!sock.destroyed) sock.write(mllpFrame(r.ack));
-        });
+        }).catch((e: unknown) => log(`${addr}: ${e instanceof Error ? e.message : String(e)}`));
       }
     });
     sock.on('error', () => undefined);

@@ -4,41 +4,19 @@
  * migrated, seeded temporary database. Duration PLATEAU_BENCH_HL7_S (default 60 s; the issue's
  * 10 minutes: PLATEAU_BENCH_HL7_S=600). Prints p50/p99/max send→ACK, lost and duplicated samples,
  * and the listener's CPU share and peak RSS.
+ *
+ * The database: tests/bench/benchDatabase.ts (SQLite, or PostgreSQL with PLATEAU_BENCH_DIALECT).
  */
-import { spawn, spawnSync } from 'node:child_process';
+import { spawn } from 'node:child_process';
 import fs from 'node:fs';
 import net from 'node:net';
-import os from 'node:os';
 import path from 'node:path';
-import { fileURLToPath } from 'node:url';
-import { openRawDatabase } from '../../lib/db/sqlite';
+import { closeDb, openDb, sqlOf } from '../../lib/db/client';
+import { BENCH_DIALECT, ROOT, freePort, makeBenchDatabase } from './benchDatabase';
 import { buildOru, readAck } from '../../lib/ingest/hl7';
 import { MllpDecoder, mllpFrame } from '../../lib/ingest/mllp';
 
 const ROOMS = 20;
-const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
-
-/** A migrated database seeded with the demo unit, by the real scripts. */
-function makeDatabase(cases: number): { dir: string; dbFile: string; env: NodeJS.ProcessEnv } {
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'plateau-bench-hl7-'));
-  const dbFile = path.join(dir, 'plateau.db');
-  const env = { ...process.env, PLATEAU_DB_FILE: dbFile, PLATEAU_DEMO_CASES: String(cases), PLATEAU_DEMO_PASSWORD: 'bench-pass-2026' };
-  for (const script of ['migrate.ts', 'seed.ts']) {
-    const r = spawnSync(process.execPath, ['--import', 'tsx', path.join(ROOT, 'scripts', script)], { cwd: ROOT, env, encoding: 'utf8' });
-    if (r.status !== 0) throw new Error(`${script} failed:\n${r.stdout}\n${r.stderr}`);
-  }
-  return { dir, dbFile, env };
-}
-
-async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const srv = net.createServer();
-    srv.listen(0, '127.0.0.1', () => {
-      const a = srv.address();
-      srv.close(() => (a && typeof a === 'object' ? resolve(a.port) : reject(new Error('no port'))));
-    });
-  });
-}
 
 function procStat(pid: number): { cpuS: number; rssMb: number } {
   const stat = fs.readFileSync(`/proc/${pid}/stat`, 'utf8');
@@ -69,17 +47,21 @@ function pct(sorted: number[], p: number): number {
 
 export async function main(): Promise<void> {
   const durationS = Number(process.env.PLATEAU_BENCH_HL7_S ?? 60);
-  const { dir, dbFile, env } = makeDatabase(30);
-  const raw = openRawDatabase(dbFile);
-  const unitId = (raw.prepare('SELECT id FROM Unit LIMIT 1').get() as { id: string }).id;
-  const cases = (raw.prepare('SELECT id FROM "Case" ORDER BY id LIMIT ?').all(ROOMS) as { id: string }[]).map((c) => c.id);
-  raw.prepare(`UPDATE "Case" SET status = 'recovery' WHERE status = 'in_progress'`).run();
-  const nowIso = new Date().toISOString();
-  for (let r = 0; r < ROOMS; r++) {
-    raw.prepare('INSERT INTO Room (id, unitId, name, location, sortOrder, createdAt) VALUES (?, ?, ?, ?, ?, ?)').run(`bench-${r}`, unitId, `Bench ${r}`, `BENCH-${r}`, 100 + r, nowIso);
-    raw.prepare(`UPDATE "Case" SET status = 'in_progress', roomId = ? WHERE id = ?`).run(`bench-${r}`, cases[r]);
-    raw.prepare('INSERT INTO Device (id, unitId, roomId, label, sendingFacility, active, createdAt) VALUES (?, ?, ?, ?, ?, 1, ?)').run(`bench-dev-${r}`, unitId, `bench-${r}`, `Bench monitor ${r}`, `BENCH-MON-${r}`, nowIso);
-  }
+  const database = await makeBenchDatabase('hl7', 30);
+  const { env } = database;
+  const client = openDb(database.target);
+  const q = sqlOf(client);
+  const unitId = (await q.get<{ id: string }>('SELECT "id" FROM "Unit" LIMIT 1'))!.id;
+  const cases = (await q.all<{ id: string }>('SELECT "id" FROM "Case" ORDER BY "id" LIMIT ?', [ROOMS])).map((c) => c.id);
+  const nowAt = new Date();
+  await q.tx(async (t) => {
+    await t.run(`UPDATE "Case" SET "status" = 'recovery' WHERE "status" = 'in_progress'`);
+    for (let r = 0; r < ROOMS; r++) {
+      await t.run('INSERT INTO "Room" ("id", "unitId", "name", "location", "sortOrder", "createdAt") VALUES (?, ?, ?, ?, ?, ?)', [`bench-${r}`, unitId, `Bench ${r}`, `BENCH-${r}`, 100 + r, nowAt]);
+      await t.run(`UPDATE "Case" SET "status" = 'in_progress', "roomId" = ? WHERE "id" = ?`, [`bench-${r}`, cases[r]]);
+      await t.run('INSERT INTO "Device" ("id", "unitId", "roomId", "label", "sendingFacility", "active", "createdAt") VALUES (?, ?, ?, ?, ?, TRUE, ?)', [`bench-dev-${r}`, unitId, `bench-${r}`, `Bench monitor ${r}`, `BENCH-MON-${r}`, nowAt]);
+    }
+  });
   const port = await freePort();
   const child = spawn(process.execPath, ['--import', 'tsx', path.join(ROOT, 'scripts', 'mllp.ts')], { cwd: ROOT, env: { ...env, PLATEAU_MLLP_PORT: String(port), PLATEAU_MLLP_QUIET: '1' }, stdio: ['ignore', 'pipe', 'pipe'] });
   let log = '';
@@ -131,7 +113,7 @@ export async function main(): Promise<void> {
     }
     sock.destroy();
   };
-  console.log(`hl7: ${ROOMS} rooms × 1 msg/s × ${durationS} s over MLLP loopback (4 samples per message)…`);
+  console.log(`hl7: ${ROOMS} rooms × 1 msg/s × ${durationS} s over MLLP loopback (4 samples per message) on ${BENCH_DIALECT}…`);
   await Promise.all(Array.from({ length: ROOMS }, (_, r) => sender(r)));
   clearInterval(rssTimer);
   const wallS = (Date.now() - wall0) / 1000;
@@ -141,12 +123,15 @@ export async function main(): Promise<void> {
   await new Promise((r) => child.once('exit', r));
 
   const expected = ROOMS * durationS * 4;
-  const ph = cases.map(() => '?').join(',');
-  const stored = (raw.prepare(`SELECT COUNT(*) AS n FROM Sample WHERE source = 'monitor' AND caseId IN (${ph}) AND atMs >= ? AND atMs < ?`).get(...cases, t0, t0 + durationS * 1000) as { n: number }).n;
-  const distinct = (raw.prepare(`SELECT COUNT(*) AS n FROM (SELECT DISTINCT caseId, channel, atMs FROM Sample WHERE source = 'monitor' AND caseId IN (${ph}) AND atMs >= ? AND atMs < ?)`).get(...cases, t0, t0 + durationS * 1000) as { n: number }).n;
-  const msgs = raw.prepare(`SELECT status, COUNT(*) AS n FROM Hl7Message GROUP BY status`).all() as { status: string; n: number }[];
-  raw.close();
-  fs.rmSync(dir, { recursive: true, force: true });
+  const ph = cases.map(() => '?').join(', ');
+  const window = [...cases, t0, t0 + durationS * 1000];
+  const stored = Number((await q.get<{ n: number }>(`SELECT COUNT(*) AS "n" FROM "Sample" WHERE "source" = 'monitor' AND "caseId" IN (${ph}) AND "atMs" >= ? AND "atMs" < ?`, window))!.n);
+  const distinct = Number(
+    (await q.get<{ n: number }>(`SELECT COUNT(*) AS "n" FROM (SELECT DISTINCT "caseId", "channel", "atMs" FROM "Sample" WHERE "source" = 'monitor' AND "caseId" IN (${ph}) AND "atMs" >= ? AND "atMs" < ?) AS "d"`, window))!.n,
+  );
+  const msgs = await q.all<{ status: string; n: number }>('SELECT "status", COUNT(*) AS "n" FROM "Hl7Message" GROUP BY "status" ORDER BY "status"');
+  await closeDb(client);
+  await database.drop();
   const s = [...latencies].sort((a, b) => a - b);
   console.log(`messages sent ${latencies.length}, ACKs ${[...codes].map(([c, n]) => `${c} ${n}`).join(', ')}; stored messages ${msgs.map((m) => `${m.status} ${m.n}`).join(', ')}`);
   console.log(`samples expected ${expected}, stored ${stored}, lost ${expected - distinct}, duplicated ${stored - distinct}`);

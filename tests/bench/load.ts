@@ -4,49 +4,22 @@
  *
  *   npm run bench:load                      60 s (PLATEAU_LOAD_SECONDS=300 for the 5-minute run)
  *   PLATEAU_LOAD_USERS=50 PLATEAU_LOAD_THINK_MS=1000 …
+ *   PLATEAU_LOAD_POLL_MS=2500         the sheet poll interval (0: no polls)
+ *   PLATEAU_LOAD_PROFILE=/tmp/prof   the server writes a V8 CPU profile there (open in Chrome DevTools)
  *
  * Prints requests, errors, lost writes (acknowledged but not in the database), p50/p95/p99
  * latency of writes and polls, and the server's resident memory (start, peak, end).
- * Needs `npm run build` first (PLATEAU_NEXT_DIST for another build folder).
+ * Needs `npm run build` first (PLATEAU_NEXT_DIST for another build folder). The database:
+ * tests/bench/benchDatabase.ts (SQLite, or PostgreSQL with PLATEAU_BENCH_DIALECT=postgresql).
  */
 import { randomUUID } from 'node:crypto';
-import { spawn, spawnSync } from 'node:child_process';
+import { spawn } from 'node:child_process';
 import fs from 'node:fs';
-import net from 'node:net';
-import os from 'node:os';
 import path from 'node:path';
-import { fileURLToPath, pathToFileURL } from 'node:url';
+import { pathToFileURL } from 'node:url';
 import { Client } from '../helpers/client';
-import { openRawDatabase } from '../../lib/db/sqlite';
-
-// tests/helpers/appServer.ts uses __dirname (vitest only), so the bench does its own small setup.
-const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
-
-function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const srv = net.createServer();
-    srv.listen(0, '127.0.0.1', () => {
-      const a = srv.address();
-      srv.close(() => (a && typeof a === 'object' ? resolve(a.port) : reject(new Error('no port'))));
-    });
-  });
-}
-
-/** A temporary database, migrated and seeded by the real scripts (as the tests do). */
-function makeDatabase(cases: number): { dir: string; dbFile: string; env: NodeJS.ProcessEnv } {
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'plateau-load-'));
-  const dbFile = path.join(dir, 'plateau.db');
-  const env: NodeJS.ProcessEnv = { ...process.env, PLATEAU_DB_FILE: dbFile, PLATEAU_DEMO_PASSWORD: 'demo-pass-2026', PLATEAU_DEMO_CASES: String(cases), NEXT_TELEMETRY_DISABLED: '1' };
-  for (const script of ['migrate.ts', 'seed.ts']) {
-    const r = spawnSync(path.join(ROOT, 'node_modules', '.bin', 'tsx'), [path.join(ROOT, 'scripts', script)], { cwd: ROOT, env, encoding: 'utf8' });
-    if (r.status !== 0) throw new Error(`${script} failed:\n${r.stdout}\n${r.stderr}`);
-  }
-  return { dir, dbFile, env };
-}
-
-function readAccounts(dbFile: string): { username: string; password: string; role: string }[] {
-  return JSON.parse(fs.readFileSync(path.join(path.dirname(dbFile), 'demo-accounts.json'), 'utf8'));
-}
+import { closeDb, openDb, sqlOf } from '../../lib/db/client';
+import { BENCH_DIALECT, ROOT, benchAccounts, freePort, makeBenchDatabase } from './benchDatabase';
 
 const KINDS = ['stimulation', 'chin_lift', 'jaw_thrust', 'oxygen_increase'];
 
@@ -66,6 +39,17 @@ function rssKb(pid: number): number {
     }
   }
   return total;
+}
+
+/** CPU seconds (user + system) of a process so far. */
+function cpuSeconds(pid: number): number {
+  try {
+    const stat = fs.readFileSync(`/proc/${pid}/stat`, 'utf8');
+    const f = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
+    return (Number(f[11]) + Number(f[12])) / 100;
+  } catch {
+    return NaN;
+  }
 }
 
 const pct = (xs: number[], p: number) => {
@@ -93,11 +77,15 @@ export async function main(): Promise<LoadResult> {
   const users = Number(process.env.PLATEAU_LOAD_USERS ?? 50);
   const seconds = Number(process.env.PLATEAU_LOAD_SECONDS ?? 60);
   const think = Number(process.env.PLATEAU_LOAD_THINK_MS ?? 1000);
+  // The bedside sheet polls every 2.5 s; 0 leaves the polls out (to weigh writes alone).
+  const pollMs_ = Number(process.env.PLATEAU_LOAD_POLL_MS ?? 2500);
   const dist = process.env.PLATEAU_NEXT_DIST || '.next';
   if (!fs.existsSync(path.join(ROOT, dist, 'BUILD_ID'))) throw new Error(`no production build in ${dist}: run npm run build`);
-  const d = makeDatabase(1);
+  const d = await makeBenchDatabase('load', 1);
   const port = await freePort();
-  const child = spawn(process.execPath, [path.join(ROOT, 'node_modules', 'next', 'dist', 'bin', 'next'), 'start', '-p', String(port), '-H', '127.0.0.1'], { cwd: ROOT, env: { ...d.env, PORT: String(port) }, stdio: 'ignore' });
+  // PLATEAU_LOAD_PROFILE=<dir>: the server writes a V8 CPU profile there when it stops.
+  const profile = process.env.PLATEAU_LOAD_PROFILE ? ['--cpu-prof', `--cpu-prof-dir=${process.env.PLATEAU_LOAD_PROFILE}`] : [];
+  const child = spawn(process.execPath, [...profile, path.join(ROOT, 'node_modules', 'next', 'dist', 'bin', 'next'), 'start', '-p', String(port), '-H', '127.0.0.1'], { cwd: ROOT, env: { ...d.env, PORT: String(port) }, stdio: 'ignore' });
   const url = `http://127.0.0.1:${port}`;
   try {
     for (let i = 0; ; i++) {
@@ -109,7 +97,7 @@ export async function main(): Promise<LoadResult> {
       if (i > 300) throw new Error('server did not start');
       await new Promise((r) => setTimeout(r, 200));
     }
-    const nurses = readAccounts(d.dbFile).filter((a) => a.role === 'nurse' || a.role === 'lead');
+    const nurses = benchAccounts(d).filter((a) => a.role === 'nurse' || a.role === 'lead');
     // One case per two users, as in a room with a nurse and a colleague.
     const clients: Client[] = [];
     for (let u = 0; u < users; u++) {
@@ -133,6 +121,8 @@ export async function main(): Promise<LoadResult> {
     let errors = 0;
     const firstErrors: string[] = [];
     const rss0 = rssKb(child.pid!);
+    const cpu0 = cpuSeconds(child.pid!);
+    const wall0 = Date.now();
     let peak = rss0;
     const memTimer = setInterval(() => (peak = Math.max(peak, rssKb(child.pid!))), 500);
     const end = Date.now() + seconds * 1000;
@@ -161,7 +151,7 @@ export async function main(): Promise<LoadResult> {
           errors++;
           if (firstErrors.length < 5) firstErrors.push(String(e));
         }
-        if (Date.now() - lastPoll > 2500) {
+        if (pollMs_ > 0 && Date.now() - lastPoll > pollMs_) {
           lastPoll = Date.now();
           const p = performance.now();
           const r = await c.get(`/api/v1/cases/${caseId}/sheet`).catch(() => ({ status: 0 }));
@@ -174,10 +164,11 @@ export async function main(): Promise<LoadResult> {
     await Promise.all(clients.map((_, u) => user(u)));
     clearInterval(memTimer);
     const rssEnd = rssKb(child.pid!);
+    const cpuShare = (cpuSeconds(child.pid!) - cpu0) / ((Date.now() - wall0) / 1000);
 
-    const raw = openRawDatabase(d.dbFile);
-    const stored = new Set((raw.prepare('SELECT id FROM Dose UNION ALL SELECT id FROM ManualVital UNION ALL SELECT id FROM Intervention').all() as { id: string }[]).map((r) => r.id));
-    raw.close();
+    const reader = openDb(d.target);
+    const stored = new Set((await sqlOf(reader).all<{ id: string }>('SELECT "id" FROM "Dose" UNION ALL SELECT "id" FROM "ManualVital" UNION ALL SELECT "id" FROM "Intervention"')).map((r) => r.id));
+    await closeDb(reader);
     const lost = acked.filter((id) => !stored.has(id)).length;
     const res: LoadResult = {
       users,
@@ -194,17 +185,17 @@ export async function main(): Promise<LoadResult> {
       rssEndMb: rssEnd / 1024,
     };
     const f = (x: number) => x.toFixed(1);
-    console.log(`load: ${users} users, ${seconds} s, think ${think} ms: ${res.writes} writes (${f(res.writes / seconds)}/s), ${res.polls} sheet polls`);
+    console.log(`load on ${BENCH_DIALECT}: ${users} users, ${seconds} s, think ${think} ms: ${res.writes} writes (${f(res.writes / seconds)}/s), ${res.polls} sheet polls`);
     console.log(`  errors ${errors}, lost writes ${lost} (${acked.length} acknowledged, all counted in the database)`);
     console.log(`  write latency p50 ${f(res.writeP50)} ms, p95 ${f(pct(writeMs, 95))} ms, p99 ${f(res.writeP99)} ms (target < 200); sheet poll p50 ${f(pct(pollMs, 50))} ms, p99 ${f(res.pollP99)} ms`);
-    console.log(`  server memory (RSS): start ${f(res.rssStartMb)} MB, peak ${f(res.rssPeakMb)} MB, end ${f(res.rssEndMb)} MB`);
+    console.log(`  server memory (RSS): start ${f(res.rssStartMb)} MB, peak ${f(res.rssPeakMb)} MB, end ${f(res.rssEndMb)} MB; server CPU ${(cpuShare * 100).toFixed(0)} % of one core`);
     if (firstErrors.length) console.log(`  first errors: ${firstErrors.join(' | ')}`);
     return res;
   } finally {
     child.kill('SIGTERM');
-    await new Promise((r) => setTimeout(r, 300));
+    await new Promise((r) => setTimeout(r, process.env.PLATEAU_LOAD_PROFILE ? 5000 : 300));
     if (child.exitCode === null) child.kill('SIGKILL');
-    fs.rmSync(d.dir, { recursive: true, force: true });
+    await d.drop();
   }
 }
 

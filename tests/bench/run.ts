@@ -5,7 +5,7 @@
 import { main as rules } from './rules';
 import { main as stats } from './stats';
 import { main as capnogram } from './capnogram';
-import { main as review } from './review';
+import { main as scale } from './scale';
 import { main as hl7 } from './hl7';
 import { main as load } from './load';
 
@@ -13,7 +13,7 @@ const BENCHES: [name: string, run: () => Promise<unknown>][] = [
   ['rules', rules],
   ['stats', stats],
   ['capnogram', capnogram],
-  ['review', review],
+  ['scale', scale],
   ['hl7', hl7],
   ['load', load],
 ];

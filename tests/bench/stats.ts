@@ -3,6 +3,7 @@
  * worth of data. Prints figures; not a test. Run: npx tsx tests/bench/stats.ts
  */
 import { performance } from 'node:perf_hooks';
+import { mulberry32 as random } from './syntheticCase';
 import {
   clopperPearsonInterval,
   funnelLimits,
@@ -15,17 +16,6 @@ import {
 
 const TOTAL_CASES = 100_000;
 
-/** Deterministic PRNG (mulberry32) so runs are comparable. */
-function random(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 /** Split TOTAL_CASES into `groups` groups with events at rate `p`. */
 function groups(count: number, p: number, seed: number): { label: string; x: number; n: number }[] {

@@ -1,9 +1,8 @@
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
-import { startApp, ROOT, type AppServer } from '../helpers/appServer';
+import { startApp, ROOT, testSql, type AppServer } from '../helpers/appServer';
 import { artifactPath, chromiumAvailable, launchBrowser, signInPage } from '../helpers/browser';
-import { openRawDatabase } from '@/lib/db/sqlite';
 
 const haveBrowser = chromiumAvailable();
 const CSV = path.join(ROOT, 'tests', 'fixtures', 'csv', 'monitor-apnea.csv');
@@ -115,16 +114,15 @@ describe.skipIf(!haveBrowser)('the bedside story, from opening a case to dischar
     await allSaved(page);
     await shot(page, '08-discharged');
 
-    const db = openRawDatabase(app.dbFile);
-    const one = <T,>(sql: string) => db.prepare(sql).get(caseId) as T;
-    expect(one<{ n: number }>('SELECT COUNT(*) AS n FROM Dose WHERE caseId = ? AND voidedAt IS NULL').n).toBe(2);
-    expect(one<{ voidReason: string }>("SELECT voidReason FROM Dose WHERE caseId = ? AND drug = 'fentanyl'").voidReason).toBe('entered on the wrong patient');
-    expect(one<{ n: number }>("SELECT COUNT(*) AS n FROM Intervention WHERE caseId = ? AND kind = 'jaw_thrust' AND voidedAt IS NULL").n).toBe(1);
-    expect(one<{ total: number }>('SELECT total FROM RecoveryScore WHERE caseId = ?').total).toBe(10);
-    expect(one<{ n: number }>("SELECT COUNT(*) AS n FROM CaseEvent WHERE caseId = ? AND kind = 'discharge'").n).toBe(1);
-    expect(one<{ status: string }>('SELECT status FROM "Case" WHERE id = ?').status).toBe('recovery');
-    expect(one<{ n: number }>("SELECT COUNT(*) AS n FROM Sample WHERE caseId = ? AND source = 'monitor'").n).toBe(14390);
-    db.close();
+    /** The first row of a query about this case (its id is the one parameter). */
+    const one = async <T,>(sql: string) => (await testSql(app).get<T>(sql, [caseId]))!;
+    expect((await one<{ n: number }>('SELECT COUNT(*) AS "n" FROM "Dose" WHERE "caseId" = ? AND "voidedAt" IS NULL')).n).toBe(2);
+    expect((await one<{ voidReason: string }>(`SELECT "voidReason" FROM "Dose" WHERE "caseId" = ? AND "drug" = 'fentanyl'`)).voidReason).toBe('entered on the wrong patient');
+    expect((await one<{ n: number }>(`SELECT COUNT(*) AS "n" FROM "Intervention" WHERE "caseId" = ? AND "kind" = 'jaw_thrust' AND "voidedAt" IS NULL`)).n).toBe(1);
+    expect((await one<{ total: number }>('SELECT "total" FROM "RecoveryScore" WHERE "caseId" = ?')).total).toBe(10);
+    expect((await one<{ n: number }>(`SELECT COUNT(*) AS "n" FROM "CaseEvent" WHERE "caseId" = ? AND "kind" = 'discharge'`)).n).toBe(1);
+    expect((await one<{ status: string }>('SELECT "status" FROM "Case" WHERE "id" = ?')).status).toBe('recovery');
+    expect((await one<{ n: number }>(`SELECT COUNT(*) AS "n" FROM "Sample" WHERE "caseId" = ? AND "source" = 'monitor'`)).n).toBe(14390);
 
     // The nurse signs the note.
     await page.getByTestId('open-note').click();

@@ -1,9 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
-import { startApp, type AppServer } from '../helpers/appServer';
+import { startApp, testSql, type AppServer } from '../helpers/appServer';
 import { artifactPath, chromiumAvailable, launchBrowser, signInPage } from '../helpers/browser';
 import { Client } from '../helpers/client';
-import { openRawDatabase } from '@/lib/db/sqlite';
 
 const haveBrowser = chromiumAvailable();
 
@@ -53,20 +52,18 @@ describe.skipIf(!haveBrowser)('offline at the bedside', () => {
     await page.getByRole('button', { name: 'Chin lift' }).click();
     await page.waitForFunction(() => /4 entries wait/.test(document.querySelector('[data-testid=save-state]')?.textContent ?? ''));
     await page.screenshot({ path: artifactPath('offline', '01-waiting'), fullPage: true });
-    const db = openRawDatabase(app.dbFile);
-    const count = (table: string) => (db.prepare(`SELECT COUNT(*) AS n FROM ${table} WHERE caseId = ?`).get(caseId) as { n: number }).n;
-    expect(count('Dose') + count('Intervention')).toBe(0);
+    const count = async (table: string) => (await testSql(app).get<{ n: number }>(`SELECT COUNT(*) AS "n" FROM "${table}" WHERE "caseId" = ?`, [caseId]))!.n;
+    expect((await count('Dose')) + (await count('Intervention'))).toBe(0);
 
     await context.setOffline(false);
     await page.waitForFunction(() => document.querySelector('[data-testid=save-state]')?.textContent === 'All saved', undefined, { timeout: 20_000 });
     await page.screenshot({ path: artifactPath('offline', '02-all-saved'), fullPage: true });
-    expect(count('Dose')).toBe(2);
-    expect(count('Intervention')).toBe(2);
+    expect(await count('Dose')).toBe(2);
+    expect(await count('Intervention')).toBe(2);
     // Later retries and polls never duplicate them.
     await page.waitForTimeout(3000);
-    expect(count('Dose')).toBe(2);
-    expect(count('Intervention')).toBe(2);
-    db.close();
+    expect(await count('Dose')).toBe(2);
+    expect(await count('Intervention')).toBe(2);
     await context.close();
   });
 
@@ -89,9 +86,7 @@ describe.skipIf(!haveBrowser)('offline at the bedside', () => {
     await page.waitForFunction(() => /1 entry waits/.test(document.querySelector('[data-testid=save-state]')?.textContent ?? ''));
     await page.unroute('**/entries');
     await page.waitForFunction(() => document.querySelector('[data-testid=save-state]')?.textContent === 'All saved', undefined, { timeout: 20_000 });
-    const db = openRawDatabase(app.dbFile);
-    expect((db.prepare("SELECT COUNT(*) AS n FROM Intervention WHERE caseId = ? AND kind = 'stimulation'").get(caseId) as { n: number }).n).toBe(1);
-    db.close();
+    expect((await testSql(app).get<{ n: number }>(`SELECT COUNT(*) AS "n" FROM "Intervention" WHERE "caseId" = ? AND "kind" = 'stimulation'`, [caseId]))!.n).toBe(1);
     await context.close();
   });
 });

@@ -1,9 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
-import { startApp, type AppServer } from '../helpers/appServer';
+import { startApp, testSql, type AppServer } from '../helpers/appServer';
 import { artifactPath, chromiumAvailable, launchBrowser, signInPage } from '../helpers/browser';
 import { Client } from '../helpers/client';
-import { openRawDatabase } from '@/lib/db/sqlite';
 
 const haveBrowser = chromiumAvailable();
 
@@ -51,14 +50,13 @@ describe.skipIf(!haveBrowser)('when a sedation case turns into a cardiac arrest'
     expect(await page.getByTestId('case-level').textContent()).toBe('Rescued');
     await shot(page, '03-after-return-of-circulation');
 
-    const db = openRawDatabase(app.dbFile);
-    const kinds = (db.prepare('SELECT kind FROM CaseEvent WHERE caseId = ? ORDER BY at').all(caseId) as { kind: string }[]).map((r) => r.kind);
+    const db = testSql(app);
+    const kinds = (await db.all<{ kind: string }>('SELECT "kind" FROM "CaseEvent" WHERE "caseId" = ? ORDER BY "at"', [caseId])).map((r) => r.kind);
     expect(kinds.filter((k) => k === 'shock')).toHaveLength(2);
     expect(kinds).toContain('rosc');
-    expect((db.prepare("SELECT note FROM CaseEvent WHERE caseId = ? AND kind = 'team_note'").get(caseId) as { note: string }).note).toBe('second shock 200 J');
-    expect((db.prepare("SELECT COUNT(*) AS n FROM Dose WHERE caseId = ? AND drug = 'epinephrine'").get(caseId) as { n: number }).n).toBe(1);
-    expect((db.prepare("SELECT caseLevel FROM CaseSummary WHERE caseId = ?").get(caseId) as { caseLevel: string }).caseLevel).toBe('rescued');
-    db.close();
+    expect((await db.get<{ note: string }>(`SELECT "note" FROM "CaseEvent" WHERE "caseId" = ? AND "kind" = 'team_note'`, [caseId]))!.note).toBe('second shock 200 J');
+    expect((await db.get<{ n: number }>(`SELECT COUNT(*) AS "n" FROM "Dose" WHERE "caseId" = ? AND "drug" = 'epinephrine'`, [caseId]))!.n).toBe(1);
+    expect((await db.get<{ caseLevel: string }>('SELECT "caseLevel" FROM "CaseSummary" WHERE "caseId" = ?', [caseId]))!.caseLevel).toBe('rescued');
 
     // The note has its own resuscitation section with the timeline.
     const note = (await api.get(`/api/v1/cases/${caseId}/note`)).json.draft;

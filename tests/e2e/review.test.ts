@@ -1,8 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
-import { startApp, type AppServer } from '../helpers/appServer';
+import { startApp, testSql, type AppServer } from '../helpers/appServer';
 import { artifactPath, chromiumAvailable, launchBrowser } from '../helpers/browser';
-import { openRawDatabase } from '@/lib/db/sqlite';
 
 const haveBrowser = chromiumAvailable();
 
@@ -89,10 +88,8 @@ describe.skipIf(!haveBrowser)('the lead’s monthly review in Chromium', () => {
     await form.scrollIntoViewIfNeeded();
     await page.screenshot({ path: artifactPath('review', '04-review-recorded'), fullPage: false });
 
-    const db = openRawDatabase(app.dbFile);
-    const stored = db.prepare('SELECT status, category, version FROM CaseReview WHERE caseId = ?').get(caseId);
-    const audit = db.prepare("SELECT action FROM AuditEntry WHERE entity = 'case_review' AND caseId = ?").all(caseId);
-    db.close();
+    const stored = await testSql(app).get('SELECT "status", "category", "version" FROM "CaseReview" WHERE "caseId" = ?', [caseId]);
+    const audit = await testSql(app).all(`SELECT "action" FROM "AuditEntry" WHERE "entity" = 'case_review' AND "caseId" = ?`, [caseId]);
     expect(stored).toEqual({ status: 'reviewed', category: 'depth_beyond_plan', version: 1 });
     expect(audit).toEqual([{ action: 'create' }]);
 

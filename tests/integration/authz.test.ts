@@ -6,11 +6,10 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startApp, type AppServer } from '../helpers/appServer';
+import { startApp, testSql, type AppServer } from '../helpers/appServer';
 import { Client } from '../helpers/client';
 import { ACCESS, PUBLIC_ROUTES } from '@/lib/server/policy';
 import { ROLES, type Role } from '@/lib/server/roles';
-import { openRawDatabase } from '@/lib/db/sqlite';
 
 const APP = path.resolve(__dirname, '..', '..', 'app');
 const METHODS = ['GET', 'POST', 'PUT', 'PATCH', 'DELETE'] as const;
@@ -75,10 +74,9 @@ function concrete(pattern: string): string {
 
 beforeAll(async () => {
   app = await startApp({ cases: 3 });
-  const raw = openRawDatabase(app.dbFile);
-  const c = raw.prepare('SELECT id FROM "Case" ORDER BY id LIMIT 1').get() as { id: string };
-  const rep = raw.prepare('SELECT id FROM "IssuedReport" LIMIT 1').get() as { id: string } | undefined;
-  raw.close();
+  const q = testSql(app);
+  const c = (await q.get<{ id: string }>('SELECT "id" FROM "Case" ORDER BY "id" LIMIT 1'))!;
+  const rep = await q.get<{ id: string }>('SELECT "id" FROM "IssuedReport" ORDER BY "id" LIMIT 1');
   ids = { caseId: c.id, reportId: rep?.id ?? 'report-that-does-not-exist', ref: 'ref-1' };
   cookies.set('none', '');
   for (const role of ROLES) {

@@ -1,8 +1,8 @@
 import { randomUUID } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startApp, type AppServer } from '../helpers/appServer';
+import { startApp, testSql, type AppServer } from '../helpers/appServer';
 import { Client } from '../helpers/client';
-import { openRawDatabase } from '@/lib/db/sqlite';
+import { asBool, type SqlValue } from '@/lib/db/sql';
 
 let app: AppServer;
 beforeAll(async () => {
@@ -12,12 +12,8 @@ afterAll(async () => {
   await app?.stop();
 });
 
-const q = <T,>(sql: string, ...args: unknown[]): T => {
-  const db = openRawDatabase(app.dbFile);
-  const r = db.prepare(sql).get(...args) as T;
-  db.close();
-  return r;
-};
+/** The first row of a query on the app's database. */
+const q = async <T,>(sql: string, ...args: SqlValue[]): Promise<T> => (await testSql(app).get<T>(sql, args))!;
 
 async function nurse(which = 0) {
   const accounts = app.accounts.filter((a) => a.role === 'nurse');
@@ -48,10 +44,10 @@ describe('the bedside record', () => {
   it('opens a case for a new patient, and refuses a record number that already exists', async () => {
     const c = await nurse();
     const id = await newCase(c);
-    const row = q<{ status: string; weightKg: number; sbSnoring: number }>('SELECT status, weightKg, sbSnoring FROM "Case" WHERE id = ?', id);
-    expect(row).toEqual({ status: 'draft', weightKg: 80, sbSnoring: 1 });
-    const mrn = q<{ mrn: string }>('SELECT p.mrn FROM Patient p JOIN "Case" c ON c.patientId = p.id WHERE c.id = ?', id).mrn;
-    const before = q<{ n: number }>('SELECT COUNT(*) AS n FROM "Case"').n;
+    const row = await q<{ status: string; weightKg: number; sbSnoring: unknown }>('SELECT "status", "weightKg", "sbSnoring" FROM "Case" WHERE "id" = ?', id);
+    expect({ ...row, sbSnoring: asBool(row.sbSnoring) }).toEqual({ status: 'draft', weightKg: 80, sbSnoring: true });
+    const mrn = (await q<{ mrn: string }>('SELECT p."mrn" FROM "Patient" p JOIN "Case" c ON c."patientId" = p."id" WHERE c."id" = ?', id)).mrn;
+    const before = (await q<{ n: number }>('SELECT COUNT(*) AS "n" FROM "Case"')).n;
     const dup = await c.post('/api/v1/cases', { patient: { mrn, familyName: 'Other', givenName: 'X', birthDate: '1970-01-01', sex: 'male' }, procedureType: 'gastroscopy', roomId: 'room-1', plannedDepth: 'moderate' });
     expect(dup.status).toBe(409);
     expect(dup.json.error).toMatch(/patient\.mrn: record number .* already belongs/);
@@ -59,7 +55,7 @@ describe('the bedside record', () => {
     expect(bad.status).toBe(422);
     expect(bad.json.error).toMatch(/plannedDepth: choose the planned depth/);
     expect(bad.json.error).toMatch(/weightKg: must be at least 1 kg/);
-    expect(q<{ n: number }>('SELECT COUNT(*) AS n FROM "Case"').n).toBe(before);
+    expect((await q<{ n: number }>('SELECT COUNT(*) AS "n" FROM "Case"')).n).toBe(before);
   });
 
   it('moves the case to "under sedation" at sedation start and to recovery at recovery start', async () => {
@@ -83,10 +79,10 @@ describe('the bedside record', () => {
       expect((await c.post(`/api/v1/cases/${id}/entries`, full)).status).toBe(201);
       expect((await c.post(`/api/v1/cases/${id}/entries`, full)).status).toBe(200);
     }
-    expect(q<{ n: number }>('SELECT COUNT(*) AS n FROM Dose WHERE caseId = ?', id).n).toBe(1);
-    expect(q<{ n: number }>('SELECT COUNT(*) AS n FROM Intervention WHERE caseId = ?', id).n).toBe(1);
-    expect(q<{ n: number }>('SELECT COUNT(*) AS n FROM ManualVital WHERE caseId = ?', id).n).toBe(1);
-    expect(q<{ total: number }>('SELECT total FROM RecoveryScore WHERE caseId = ?', id).total).toBe(9);
+    expect((await q<{ n: number }>('SELECT COUNT(*) AS "n" FROM "Dose" WHERE "caseId" = ?', id)).n).toBe(1);
+    expect((await q<{ n: number }>('SELECT COUNT(*) AS "n" FROM "Intervention" WHERE "caseId" = ?', id)).n).toBe(1);
+    expect((await q<{ n: number }>('SELECT COUNT(*) AS "n" FROM "ManualVital" WHERE "caseId" = ?', id)).n).toBe(1);
+    expect((await q<{ total: number }>('SELECT "total" FROM "RecoveryScore" WHERE "caseId" = ?', id)).total).toBe(9);
   });
 
   it('voids a wrong dose with a reason and keeps it visible in the history, and refuses a second, different void', async () => {
@@ -105,7 +101,7 @@ describe('the bedside record', () => {
     const sheet = await c.get(`/api/v1/cases/${id}/sheet`);
     const d = sheet.json.doses.find((x: { id: string }) => x.id === doseId);
     expect(d.voided.reason).toBe('wrong drug');
-    expect(q<{ n: number }>("SELECT COUNT(*) AS n FROM AuditEntry WHERE action = 'void' AND entityId = ?", doseId).n).toBe(1);
+    expect((await q<{ n: number }>(`SELECT COUNT(*) AS "n" FROM "AuditEntry" WHERE "action" = 'void' AND "entityId" = ?`, doseId)).n).toBe(1);
   });
 
   it('re-times an intervention "2 min ago": the old entry is voided, the new one replaces it', async () => {
@@ -151,7 +147,7 @@ describe('the bedside record', () => {
     const stale = await b.req('PATCH', `/api/v1/cases/${id}`, { changes: { weightKg: { from: 80, to: 79 }, allergies: { from: null, to: 'latex' } } });
     expect(stale.status).toBe(409);
     expect(stale.json.error).toMatch(/changes\.weightKg: changed by someone else/);
-    const row = q<{ weightKg: number; allergies: string | null }>('SELECT weightKg, allergies FROM "Case" WHERE id = ?', id);
+    const row = await q<{ weightKg: number; allergies: string | null }>('SELECT "weightKg", "allergies" FROM "Case" WHERE "id" = ?', id);
     expect(row).toEqual({ weightKg: 82, allergies: null });
     // A different field is not a conflict.
     const other = await b.req('PATCH', `/api/v1/cases/${id}`, { changes: { allergies: { from: null, to: 'latex' } } });
@@ -168,7 +164,7 @@ describe('the bedside record', () => {
     const id = await newCase(c);
     const ok = await entry(c, id, { type: 'blood_gas', paco2: 6.2, unit: 'kPa', ph: 7.31, sampleType: 'arterial' });
     expect(ok.status, ok.text).toBe(201);
-    expect(q<{ paco2: number; enteredUnit: string }>('SELECT paco2, enteredUnit FROM BloodGas WHERE caseId = ?', id)).toEqual({ paco2: 46.5, enteredUnit: 'kPa' });
+    expect(await q<{ paco2: number; enteredUnit: string }>('SELECT "paco2", "enteredUnit" FROM "BloodGas" WHERE "caseId" = ?', id)).toEqual({ paco2: 46.5, enteredUnit: 'kPa' });
     const bad = await entry(c, id, { type: 'blood_gas', paco2: 45, unit: 'kPa' });
     expect(bad.status).toBe(422);
     expect(bad.json.error).toMatch(/paco2: is out of range for the unit/);
@@ -179,8 +175,8 @@ describe('the bedside record', () => {
   it('refuses malformed entries with the field named, and writes nothing', async () => {
     const c = await nurse();
     const id = await newCase(c);
-    const audit = () => q<{ n: number }>('SELECT COUNT(*) AS n FROM AuditEntry').n;
-    const before = audit();
+    const audit = async () => (await q<{ n: number }>('SELECT COUNT(*) AS "n" FROM "AuditEntry"')).n;
+    const before = await audit();
     const bad: [Record<string, unknown>, RegExp][] = [
       [{ type: 'teleport' }, /type: must be dose, intervention/],
       [{ type: 'intervention', kind: 'prayer' }, /kind: is not a known intervention/],
@@ -195,19 +191,19 @@ describe('the bedside record', () => {
       expect(r.status, JSON.stringify(body)).toBe(422);
       expect(r.json.error).toMatch(msg);
     }
-    expect(audit()).toBe(before);
+    expect(await audit()).toBe(before);
   });
 
   it('gives the live sheet new monitor samples incrementally and the episodes from the rules', async () => {
     const c = await nurse();
     // Any demo case with monitor data (today's list may hold only cases not started yet, before 08:00).
-    const done = { id: q<{ caseId: string }>("SELECT caseId FROM Sample WHERE source = 'monitor' LIMIT 1").caseId };
+    const done = { id: (await q<{ caseId: string }>(`SELECT "caseId" FROM "Sample" WHERE "source" = 'monitor' LIMIT 1`)).caseId };
     const full = (await c.get(`/api/v1/cases/${done.id}/sheet`)).json;
     expect(full.samples.lastId).toBeGreaterThan(0);
     expect(full.analysis.ruleSet).toEqual({ id: 'plateau-default', version: 1 });
     const none = (await c.get(`/api/v1/cases/${done.id}/sheet?after=${full.samples.lastId}`)).json;
     expect(Object.keys(none.samples.channels)).toHaveLength(0);
-    const stored = q<{ n: number }>("SELECT COUNT(*) AS n FROM Sample WHERE caseId = ? AND source = 'monitor' AND probeOff = 0", done.id).n;
+    const stored = (await q<{ n: number }>(`SELECT COUNT(*) AS "n" FROM "Sample" WHERE "caseId" = ? AND "source" = 'monitor' AND "probeOff" = FALSE`, done.id)).n;
     const sent = Object.values(full.samples.channels as Record<string, { t: number[] }>).reduce((s, ch) => s + ch.t.length, 0);
     expect(sent).toBe(stored);
   });

@@ -1,8 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startApp, type AppServer } from '../helpers/appServer';
+import { startApp, testSql, type AppServer } from '../helpers/appServer';
 import { Client } from '../helpers/client';
-import { openRawDatabase } from '@/lib/db/sqlite';
 
 let app: AppServer;
 
@@ -13,12 +12,7 @@ afterAll(async () => {
   await app?.stop();
 });
 
-const count = (table: string) => {
-  const db = openRawDatabase(app.dbFile);
-  const n = (db.prepare(`SELECT COUNT(*) AS n FROM "${table}"`).get() as { n: number }).n;
-  db.close();
-  return n;
-};
+const count = async (table: string) => (await testSql(app).get<{ n: number }>(`SELECT COUNT(*) AS "n" FROM "${table}"`))!.n;
 
 describe('health', () => {
   it('reports the database reachable and migrations current', async () => {
@@ -45,27 +39,23 @@ describe('sign-in', () => {
     expect(cookie).toMatch(/HttpOnly/i);
     expect(cookie).toMatch(/SameSite=lax/i);
     const token = cookie.split(';')[0].split('=')[1];
-    const db = openRawDatabase(app.dbFile);
-    expect(db.prepare('SELECT COUNT(*) AS n FROM Session WHERE id = ?').get(token)).toEqual({ n: 0 });
-    db.close();
+    expect(await testSql(app).get('SELECT COUNT(*) AS "n" FROM "Session" WHERE "id" = ?', [token])).toEqual({ n: 0 });
   });
 
   it('refuses a wrong password with one message, audits the failure and opens no session', async () => {
-    const sessions = count('Session');
+    const sessions = await count('Session');
     const r = await new Client(app.url).post('/api/v1/session', { username: app.account('nurse').username, password: 'wrong-password-1' });
     expect(r.status).toBe(401);
     expect(r.json.error).toBe('Username or password is not right.');
     const unknown = await new Client(app.url).post('/api/v1/session', { username: 'nobody.here', password: 'whatever-123' });
     expect(unknown.json.error).toBe(r.json.error);
-    expect(count('Session')).toBe(sessions);
-    const db = openRawDatabase(app.dbFile);
-    const failures = db.prepare("SELECT COUNT(*) AS n FROM AuditEntry WHERE action = 'sign_in_failed'").get() as { n: number };
-    db.close();
+    expect(await count('Session')).toBe(sessions);
+    const failures = (await testSql(app).get<{ n: number }>(`SELECT COUNT(*) AS "n" FROM "AuditEntry" WHERE "action" = 'sign_in_failed'`))!;
     expect(failures.n).toBeGreaterThanOrEqual(2);
   });
 
   it('answers malformed sign-in bodies with a message naming the field, and writes nothing', async () => {
-    const before = { sessions: count('Session'), audit: count('AuditEntry') };
+    const before = { sessions: await count('Session'), audit: await count('AuditEntry') };
     const c = new Client(app.url);
     const empty = await c.post('/api/v1/session', { username: '', password: '' });
     expect(empty.status).toBe(422);
@@ -76,7 +66,7 @@ describe('sign-in', () => {
     const wrongType = await c.post('/api/v1/session', { username: 42 });
     expect(wrongType.status).toBe(422);
     expect(wrongType.json.error).toMatch(/username/);
-    expect({ sessions: count('Session'), audit: count('AuditEntry') }).toEqual(before);
+    expect({ sessions: await count('Session'), audit: await count('AuditEntry') }).toEqual(before);
   });
 
   it('signs out: the session stops working', async () => {
@@ -120,10 +110,10 @@ describe('role checks: for each role one allowed and one forbidden page and API 
   it('a safety officer cannot write case data', async () => {
     const c = new Client(app.url);
     await c.signIn(app.account('safety').username, app.account('safety').password);
-    const before = count('Dose');
+    const before = await count('Dose');
     const r = await c.post('/api/v1/cases/case-demo-0001/doses', { id: randomUUID(), drugId: 'drug-propofol', amount: 30, unit: 'mg', route: 'IV', at: new Date().toISOString() });
     expect(r.status).toBe(403);
-    expect(count('Dose')).toBe(before);
+    expect(await count('Dose')).toBe(before);
   });
 });
 
@@ -144,9 +134,7 @@ describe('writing a dose', () => {
     expect(first.status).toBe(201);
     const again = await c.post(`/api/v1/cases/${caseId}/doses`, dose);
     expect(again.status).toBe(200);
-    const db = openRawDatabase(app.dbFile);
-    expect(db.prepare('SELECT COUNT(*) AS n FROM Dose WHERE id = ?').get(dose.id)).toEqual({ n: 1 });
-    db.close();
+    expect(await testSql(app).get('SELECT COUNT(*) AS "n" FROM "Dose" WHERE "id" = ?', [dose.id])).toEqual({ n: 1 });
     const changed = await c.post(`/api/v1/cases/${caseId}/doses`, { ...dose, amount: 400 });
     expect(changed.status).toBe(409);
   });
@@ -154,7 +142,7 @@ describe('writing a dose', () => {
   it('refuses bad doses with a message naming the field, and writes nothing', async () => {
     const { c, caseId } = await nurseAndCase();
     const good = { id: randomUUID(), drugId: 'drug-propofol', amount: 40, unit: 'mg', route: 'IV', at: new Date().toISOString() };
-    const before = { doses: count('Dose'), audit: count('AuditEntry') };
+    const before = { doses: await count('Dose'), audit: await count('AuditEntry') };
     const cases: [Record<string, unknown>, RegExp, number][] = [
       [{ ...good, amount: -5 }, /amount: must be more than 0/, 422],
       [{ ...good, amount: 'ten' }, /amount: must be a number/, 422],
@@ -170,7 +158,7 @@ describe('writing a dose', () => {
     }
     const unknownCase = await c.post('/api/v1/cases/no-such-case/doses', good);
     expect(unknownCase.status).toBe(404);
-    expect({ doses: count('Dose'), audit: count('AuditEntry') }).toEqual(before);
+    expect({ doses: await count('Dose'), audit: await count('AuditEntry') }).toEqual(before);
   });
 
   it('refuses a mutation sent from another site (Origin check)', async () => {
@@ -184,7 +172,7 @@ describe('administration', () => {
   it('an admin creates an account; bad input is refused with the field named and nothing written', async () => {
     const c = new Client(app.url);
     await c.signIn(app.account('admin').username, app.account('admin').password);
-    const users = count('User');
+    const users = await count('User');
     const weak = await c.post('/api/v1/admin/users', { username: 'new.nurse', displayName: 'New Nurse', role: 'nurse', password: 'short' });
     expect(weak.status).toBe(422);
     expect(weak.json.error).toMatch(/password: must be at least 10 characters/);
@@ -192,12 +180,12 @@ describe('administration', () => {
     expect(badRole.json.error).toMatch(/role: must be one of/);
     const badName = await c.post('/api/v1/admin/users', { username: 'New Nurse!', displayName: 'New Nurse', role: 'nurse', password: 'long-enough-123' });
     expect(badName.json.error).toMatch(/username: may use only/);
-    expect(count('User')).toBe(users);
+    expect(await count('User')).toBe(users);
     const ok = await c.post('/api/v1/admin/users', { username: 'new.nurse', displayName: 'New Nurse', role: 'nurse', password: 'long-enough-123' });
     expect(ok.status).toBe(201);
     const dup = await c.post('/api/v1/admin/users', { username: 'new.nurse', displayName: 'Again', role: 'nurse', password: 'long-enough-123' });
     expect(dup.status).toBe(409);
-    expect(count('User')).toBe(users + 1);
+    expect(await count('User')).toBe(users + 1);
     const fresh = new Client(app.url);
     await fresh.signIn('new.nurse', 'long-enough-123');
     expect((await fresh.get('/api/v1/me')).json.role).toBe('nurse');

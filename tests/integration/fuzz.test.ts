@@ -8,13 +8,12 @@ import { spawnSync } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
 import fc from 'fast-check';
-import type Database from 'better-sqlite3';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { ROOT, startApp, type AppServer } from '../helpers/appServer';
+import { ROOT, startApp, testSql, type AppServer } from '../helpers/appServer';
 import { Client } from '../helpers/client';
 import { ACCESS, PUBLIC_ROUTES } from '@/lib/server/policy';
 import type { Role } from '@/lib/server/roles';
-import { openRawDatabase } from '@/lib/db/sqlite';
+import type { Sql } from '@/lib/db/sql';
 
 const APP = path.resolve(__dirname, '..', '..', 'app');
 const RUNS = Number(process.env.PLATEAU_FUZZ_RUNS ?? 40);
@@ -38,22 +37,60 @@ function writeEndpoints(): { method: string; pattern: string }[] {
   return out;
 }
 
-/** A fingerprint of the database content: every table's rows, hashed (sessions by count only — reads touch them). */
-function fingerprint(raw: Database.Database, skip: Set<string>): Record<string, string> {
-  const tables = (raw.prepare("SELECT name FROM sqlite_master WHERE type = 'table' AND name NOT LIKE 'sqlite_%' ORDER BY name").all() as { name: string }[]).map((t) => t.name);
+/** Every table of the app's schema (Prisma's migration bookkeeping excluded: no request can touch it). */
+async function tableNames(q: Sql): Promise<string[]> {
+  const rows =
+    q.dialect === 'sqlite'
+      ? await q.all<{ name: string }>(`SELECT "name" FROM sqlite_master WHERE "type" = 'table' AND "name" NOT LIKE 'sqlite_%' ORDER BY "name"`)
+      : await q.all<{ name: string }>(`SELECT table_name AS "name" FROM information_schema.tables WHERE table_schema = current_schema() AND table_type = 'BASE TABLE' ORDER BY table_name`);
+  return rows.map((t) => t.name).filter((t) => t !== '_prisma_migrations');
+}
+
+/** A table's primary-key columns, in key order (every Prisma model has one). */
+async function primaryKey(q: Sql, table: string): Promise<string[]> {
+  const rows =
+    q.dialect === 'sqlite'
+      ? await q.all<{ col: string }>('SELECT "name" AS "col" FROM pragma_table_info(?) WHERE "pk" > 0 ORDER BY "pk"', [table])
+      : await q.all<{ col: string }>(
+          `SELECT kcu.column_name AS "col" FROM information_schema.table_constraints tc
+             JOIN information_schema.key_column_usage kcu ON kcu.constraint_name = tc.constraint_name AND kcu.table_schema = tc.table_schema AND kcu.table_name = tc.table_name
+           WHERE tc.table_schema = current_schema() AND tc.table_name = ? AND tc.constraint_type = 'PRIMARY KEY' ORDER BY kcu.ordinal_position`,
+          [table],
+        );
+  return rows.map((r) => r.col);
+}
+
+/** A value as text the same way on both databases (instants as ISO, bytes as hex). */
+function cell(v: unknown): unknown {
+  if (typeof v === 'bigint') return String(v);
+  if (v instanceof Date) return v.toISOString();
+  if (Buffer.isBuffer(v) || v instanceof Uint8Array) return Buffer.from(v).toString('hex');
+  return v;
+}
+
+const keys = new Map<string, string[]>();
+/**
+ * A fingerprint of the database content: every table's rows in primary-key order, hashed
+ * (sessions by count only — reads touch them). Big append-mostly tables (monitor samples): the
+ * count, the highest key and the newest 500 rows.
+ */
+async function fingerprint(q: Sql, skip: Set<string>): Promise<Record<string, string>> {
   const out: Record<string, string> = {};
-  for (const t of tables) {
+  for (const t of await tableNames(q)) {
     if (skip.has(t)) continue;
     if (t === 'Session') {
-      out[t] = String((raw.prepare('SELECT COUNT(*) AS n FROM "Session"').get() as { n: number }).n);
+      out[t] = String((await q.get<{ n: number }>('SELECT COUNT(*) AS "n" FROM "Session"'))!.n);
       continue;
     }
+    if (!keys.has(t)) keys.set(t, await primaryKey(q, t));
+    const pk = keys.get(t)!;
+    expect(pk.length, `${t} has a primary key`).toBeGreaterThan(0);
+    const order = pk.map((c) => `"${c}"`).join(', ');
     const h = createHash('sha256');
-    // Big append-mostly tables (monitor samples): the count, the last rowid and the newest 500 rows.
-    const n = (raw.prepare(`SELECT COUNT(*) AS n, MAX(rowid) AS m FROM "${t}"`).get() as { n: number; m: number | null });
-    h.update(`${n.n}:${n.m}`);
-    const sql = n.n > 2000 ? `SELECT * FROM "${t}" ORDER BY rowid DESC LIMIT 500` : `SELECT * FROM "${t}" ORDER BY rowid`;
-    for (const row of raw.prepare(sql).raw().iterate()) h.update(JSON.stringify(row, (_k, v) => (typeof v === 'bigint' ? String(v) : Buffer.isBuffer(v) ? v.toString('hex') : v)));
+    const n = (await q.get<{ n: number; m: unknown }>(`SELECT COUNT(*) AS "n", MAX("${pk[0]}") AS "m" FROM "${t}"`))!;
+    h.update(`${n.n}:${String(cell(n.m))}`);
+    const sql = n.n > 2000 ? `SELECT * FROM "${t}" ORDER BY ${pk.map((c) => `"${c}" DESC`).join(', ')} LIMIT 500` : `SELECT * FROM "${t}" ORDER BY ${order}`;
+    for (const row of await q.all<Record<string, unknown>>(sql)) h.update(JSON.stringify(Object.values(row).map(cell)));
     out[t] = h.digest('hex');
   }
   return out;
@@ -77,7 +114,7 @@ const body: fc.Arbitrary<Body> = fc.oneof(
 );
 
 let app: AppServer;
-let raw: Database.Database;
+let db: Sql;
 let openCase: string;
 const clients = new Map<string, Client>();
 
@@ -92,10 +129,9 @@ beforeAll(async () => {
   const r = await clients.get('nurse')!.post('/api/v1/cases', { patient: { mrn: `F-${randomUUID().slice(0, 8)}`, familyName: 'Fuzz', givenName: 'Test', birthDate: '1970-01-01', sex: 'female' }, procedureType: 'colonoscopy', roomId: 'room-1', plannedDepth: 'moderate' });
   expect(r.status, r.text).toBe(201);
   openCase = r.json.id;
-  raw = openRawDatabase(app.dbFile);
+  db = testSql(app);
 }, 120_000);
 afterAll(async () => {
-  raw?.close();
   await app?.stop();
 });
 
@@ -120,11 +156,11 @@ describe('fuzzing every write endpoint', () => {
       const url = ep.pattern.replace(/\[id\]/g, ep.pattern.startsWith('/api/v1/reports') ? 'report-none' : openCase).replace(/\[[^\]]+\]/g, 'x');
       await fc.assert(
         fc.asyncProperty(body, async (b) => {
-          const before = fingerprint(raw, skip);
+          const before = await fingerprint(db, skip);
           const res = b.kind === 'json' ? await client.req(ep.method, url, b.value) : await client.req(ep.method, url, b.value, { 'content-type': b.type });
           expect(res.status, `${key} ${JSON.stringify(b).slice(0, 300)} → ${res.text.slice(0, 300)}`).toBeLessThan(500);
           if (!isPublic) expect(res.status, `${key} must stay signed in`).not.toBe(401);
-          if (res.status >= 400) expect(fingerprint(raw, skip), `${key} refused with ${res.status} but changed the database: ${JSON.stringify(b).slice(0, 300)}`).toEqual(before);
+          if (res.status >= 400) expect(await fingerprint(db, skip), `${key} refused with ${res.status} but changed the database: ${JSON.stringify(b).slice(0, 300)}`).toEqual(before);
         }),
         { numRuns: RUNS },
       );

@@ -3,9 +3,9 @@ import { createHash } from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startApp, type AppServer } from '../helpers/appServer';
+import { startApp, testSql, type AppServer } from '../helpers/appServer';
 import { Client } from '../helpers/client';
-import { openRawDatabase } from '@/lib/db/sqlite';
+import { asDate, type SqlValue } from '@/lib/db/sql';
 import { APNEA, HOUR_ROWS, HOUR_VALUES } from '../fixtures/csv/generate';
 
 let app: AppServer;
@@ -26,18 +26,14 @@ const HOUR_CHANNELS = [
   { column: 'HR', channel: 'hr', unit: '/min' },
 ];
 
-function query<T>(sql: string, ...args: unknown[]): T {
-  const db = openRawDatabase(app.dbFile);
-  try {
-    return db.prepare(sql).get(...args) as T;
-  } finally {
-    db.close();
-  }
+/** The first row of a query on the app's database. */
+async function query<T>(sql: string, ...args: SqlValue[]): Promise<T> {
+  return (await testSql(app).get<T>(sql, args))!;
 }
-const counts = () => ({
-  samples: query<{ n: number }>('SELECT COUNT(*) AS n FROM Sample').n,
-  imports: query<{ n: number }>('SELECT COUNT(*) AS n FROM SampleImport').n,
-  audit: query<{ n: number }>('SELECT COUNT(*) AS n FROM AuditEntry').n,
+const counts = async () => ({
+  samples: (await query<{ n: number }>('SELECT COUNT(*) AS "n" FROM "Sample"')).n,
+  imports: (await query<{ n: number }>('SELECT COUNT(*) AS "n" FROM "SampleImport"')).n,
+  audit: (await query<{ n: number }>('SELECT COUNT(*) AS "n" FROM "AuditEntry"')).n,
 });
 
 /** A signed-in client, and its cookie for multipart requests the JSON client cannot send. */
@@ -74,8 +70,8 @@ async function openCase(c: Client): Promise<{ id: string; startMs: number; offse
   expect(open.length, 'the demo has an unsigned case today').toBeGreaterThan(0);
   const withCounts = await Promise.all(open.map(async (x: { id: string }) => ({ id: x.id, n: (await c.get(`/api/v1/cases/${x.id}`)).json._count.samples as number })));
   const pick = withCounts.sort((a, b) => a.n - b.n)[0];
-  const row = query<{ startAt: string; last: number | null }>('SELECT startAt, (SELECT MAX(atMs) FROM Sample WHERE caseId = c.id) AS last FROM "Case" c WHERE id = ?', pick.id);
-  const startMs = Date.parse(row.startAt);
+  const row = await query<{ startAt: unknown; last: number | null }>('SELECT c."startAt", (SELECT MAX(s."atMs") FROM "Sample" s WHERE s."caseId" = c."id") AS "last" FROM "Case" c WHERE c."id" = ?', pick.id);
+  const startMs = asDate(row.startAt).getTime();
   const offsetS = row.last === null ? 0 : Math.ceil((row.last - startMs) / 1000) + 60;
   return { id: pick.id, startMs, offsetS };
 }
@@ -92,7 +88,7 @@ describe('monitor CSV import: a nurse previews, then imports', () => {
   });
 
   it('previews the one-hour file: suggested mapping, series thinned for a chart, nothing written', async () => {
-    const before = counts();
+    const before = await counts();
     const r = await postFile(nurse.cookie, `/api/v1/cases/${target.id}/imports/preview`, hour, 'monitor-apnea.csv');
     expect(r.status, r.text).toBe(200);
     expect(r.json).toMatchObject({ ok: true, fileName: 'monitor-apnea.csv', rows: HOUR_ROWS, samples: HOUR_VALUES, firstAt: 0, lastAt: 3599 });
@@ -109,11 +105,11 @@ describe('monitor CSV import: a nurse previews, then imports', () => {
     const json = await nurse.c.post(`/api/v1/cases/${target.id}/imports/preview`, { text: hour.toString('utf8'), mapping: { ...r.json.mapping, clockOffsetS: target.offsetS } });
     expect(json.status).toBe(200);
     expect(json.json.firstAt).toBe(target.offsetS);
-    expect(counts()).toEqual(before);
+    expect(await counts()).toEqual(before);
   });
 
   it('imports it atomically: the stored samples equal the file\'s non-empty cells, with the import row and an audit entry', async () => {
-    const before = counts();
+    const before = await counts();
     const mapping = { timeColumn: 'Time (s)', timeFormat: 'seconds', channels: HOUR_CHANNELS, clockOffsetS: target.offsetS };
     const t0 = performance.now();
     const r = await postFile(nurse.cookie, `/api/v1/cases/${target.id}/imports`, hour, 'monitor-apnea.csv', mapping);
@@ -125,41 +121,41 @@ describe('monitor CSV import: a nurse previews, then imports', () => {
     importId = r.json.importId;
     expect(r.json.fileHash).toBe(createHash('sha256').update(hour).digest('hex'));
 
-    expect(query<{ n: number }>('SELECT COUNT(*) AS n FROM Sample WHERE importId = ?', importId).n).toBe(HOUR_VALUES);
-    expect(counts()).toEqual({ samples: before.samples + HOUR_VALUES, imports: before.imports + 1, audit: before.audit + 1 });
-    const imp = query<any>('SELECT caseId, fileHash, fileName, rows, samples FROM SampleImport WHERE id = ?', importId);
+    expect((await query<{ n: number }>('SELECT COUNT(*) AS "n" FROM "Sample" WHERE "importId" = ?', importId)).n).toBe(HOUR_VALUES);
+    expect(await counts()).toEqual({ samples: before.samples + HOUR_VALUES, imports: before.imports + 1, audit: before.audit + 1 });
+    const imp = await query<any>('SELECT "caseId", "fileHash", "fileName", "rows", "samples" FROM "SampleImport" WHERE "id" = ?', importId);
     expect(imp).toEqual({ caseId: target.id, fileHash: r.json.fileHash, fileName: 'monitor-apnea.csv', rows: HOUR_ROWS, samples: HOUR_VALUES });
-    const audit = query<any>("SELECT action, entity, entityId, caseId, after FROM AuditEntry WHERE entity = 'sample_import' ORDER BY seq DESC LIMIT 1");
+    const audit = await query<any>(`SELECT "action", "entity", "entityId", "caseId", "after" FROM "AuditEntry" WHERE "entity" = 'sample_import' ORDER BY "seq" DESC LIMIT 1`);
     expect(audit).toMatchObject({ action: 'import', entityId: importId, caseId: target.id });
     expect(JSON.parse(audit.after)).toMatchObject({ samples: HOUR_VALUES, skipped: 0, rows: HOUR_ROWS });
 
     // Instants: case start + (t + offset)·1000, source monitor; the apnoea is where the file put it.
-    const span = query<{ lo: number; hi: number; src: string }>("SELECT MIN(atMs) AS lo, MAX(atMs) AS hi, MIN(source) AS src FROM Sample WHERE importId = ? AND channel = 'etco2'", importId);
+    const span = await query<{ lo: number; hi: number; src: string }>(`SELECT MIN("atMs") AS "lo", MAX("atMs") AS "hi", MIN("source") AS "src" FROM "Sample" WHERE "importId" = ? AND "channel" = 'etco2'`, importId);
     expect(span).toEqual({ lo: target.startMs + target.offsetS * 1000, hi: target.startMs + (target.offsetS + 3599) * 1000, src: 'monitor' });
-    const apnea = query<{ n: number; first: number }>("SELECT COUNT(*) AS n, MIN(atMs) AS first FROM Sample WHERE importId = ? AND channel = 'etco2' AND value < 5", importId);
+    const apnea = await query<{ n: number; first: number }>(`SELECT COUNT(*) AS "n", MIN("atMs") AS "first" FROM "Sample" WHERE "importId" = ? AND "channel" = 'etco2' AND "value" < 5`, importId);
     expect(apnea).toEqual({ n: APNEA.seconds, first: target.startMs + (target.offsetS + APNEA.from) * 1000 });
   });
 
   it('refuses the same file a second time with 409 and adds nothing (multipart or JSON, any mapping)', async () => {
     expect(importId).not.toBe('');
-    const before = counts();
+    const before = await counts();
     const again = await postFile(nurse.cookie, `/api/v1/cases/${target.id}/imports`, hour, 'renamed.csv', { timeColumn: 'Time (s)', timeFormat: 'seconds', channels: HOUR_CHANNELS, clockOffsetS: target.offsetS + 7200 });
     expect(again.status).toBe(409);
     expect(again.json).toMatchObject({ ok: false, importId, error: expect.stringMatching(/already imported into this case \(as "monitor-apnea.csv"/) });
     const json = await nurse.c.post(`/api/v1/cases/${target.id}/imports`, { text: hour.toString('utf8'), mapping: { timeColumn: 'Time (s)', timeFormat: 'seconds', channels: HOUR_CHANNELS } });
     expect(json.status).toBe(409);
-    expect(counts()).toEqual(before);
+    expect(await counts()).toEqual(before);
   });
 
   it('skips samples at instants the case already has, keeping the stored values, and reports how many', async () => {
-    const existing = query<{ atMs: number; value: number }>("SELECT atMs, value FROM Sample WHERE importId = ? AND channel = 'hr' ORDER BY atMs LIMIT 1", importId);
+    const existing = await query<{ atMs: number; value: number }>(`SELECT "atMs", "value" FROM "Sample" WHERE "importId" = ? AND "channel" = 'hr' ORDER BY "atMs" LIMIT 1`, importId);
     const csv = `timestamp,HR\n${existing.atMs},150\n${existing.atMs + 500},151\n`;
-    const before = counts();
+    const before = await counts();
     const r = await nurse.c.post(`/api/v1/cases/${target.id}/imports`, { text: csv, fileName: 'overlap.csv', mapping: { timeColumn: 'timestamp', timeFormat: 'epoch_ms', channels: [{ column: 'HR', channel: 'hr', unit: '/min' }] } });
     expect(r.status, r.text).toBe(201);
     expect(r.json).toMatchObject({ samples: 1, skipped: 1, byChannel: { hr: { inserted: 1, skipped: 1 } } });
-    expect(query<{ value: number }>("SELECT value FROM Sample WHERE caseId = ? AND channel = 'hr' AND source = 'monitor' AND atMs = ?", target.id, existing.atMs).value).toBe(existing.value);
-    expect(counts()).toEqual({ samples: before.samples + 1, imports: before.imports + 1, audit: before.audit + 1 });
+    expect((await query<{ value: number }>(`SELECT "value" FROM "Sample" WHERE "caseId" = ? AND "channel" = 'hr' AND "source" = 'monitor' AND "atMs" = ?`, target.id, existing.atMs)).value).toBe(existing.value);
+    expect(await counts()).toEqual({ samples: before.samples + 1, imports: before.imports + 1, audit: before.audit + 1 });
   });
 });
 
@@ -198,7 +194,7 @@ describe('monitor CSV import: refusals', () => {
     it(`refuses ${m.file} with 422, naming rows and columns, and saves nothing`, async () => {
       const { c, cookie } = await signedIn('nurse');
       const target = await openCase(c);
-      const before = counts();
+      const before = await counts();
       const preview = await postFile(cookie, `/api/v1/cases/${target.id}/imports/preview`, fixture(m.file), m.file, m.mapping);
       expect(preview.status, preview.text).toBe(422);
       const r = await postFile(cookie, `/api/v1/cases/${target.id}/imports`, fixture(m.file), m.file, m.mapping);
@@ -209,14 +205,14 @@ describe('monitor CSV import: refusals', () => {
         expect(body.errorCount).toBe(m.expect.length);
         expect(body.error).toMatch(new RegExp(`^file: ${m.expect.length} problems?; row ${m.expect[0].row}`));
       }
-      expect(counts()).toEqual(before);
+      expect(await counts()).toEqual(before);
     });
   }
 
   it('refuses an empty file, an import without a mapping, and a bad mapping, saving nothing', async () => {
     const { c, cookie } = await signedIn('nurse');
     const target = await openCase(c);
-    const before = counts();
+    const before = await counts();
     const empty = await postFile(cookie, `/api/v1/cases/${target.id}/imports`, Buffer.from(''), 'empty.csv', { timeColumn: 'Time', timeFormat: 'seconds', channels: HOUR_CHANNELS });
     expect(empty.status).toBe(422);
     expect(empty.json.errors).toEqual([{ row: 1, column: null, message: 'the file is empty' }]);
@@ -226,23 +222,21 @@ describe('monitor CSV import: refusals', () => {
     const badUnit = await c.post(`/api/v1/cases/${target.id}/imports`, { text: 'Time (s),HR\n0,70\n', mapping: { timeColumn: 'Time (s)', timeFormat: 'seconds', channels: [{ column: 'HR', channel: 'bp', unit: '/min' }] } });
     expect(badUnit.status).toBe(422);
     expect(badUnit.json.error).toMatch(/mapping\.channels\[0\]\.channel: must be one of etco2/);
-    expect(counts()).toEqual(before);
+    expect(await counts()).toEqual(before);
   });
 
   it('refuses an import into a signed case with 409, and an unknown case with 404', async () => {
     const { c } = await signedIn('nurse');
     // Any signed demo case (today's list may have none yet early in the day).
-    const rdb = openRawDatabase(app.dbFile);
-    const signed = rdb.prepare("SELECT id FROM \"Case\" WHERE status = 'signed' LIMIT 1").get() as { id: string };
-    rdb.close();
-    const before = counts();
+    const signed = await query<{ id: string }>(`SELECT "id" FROM "Case" WHERE "status" = 'signed' ORDER BY "id" LIMIT 1`);
+    const before = await counts();
     const body = { text: fixture('gaps.csv').toString('utf8'), mapping: { timeColumn: 'Time (s)', timeFormat: 'seconds', channels: HOUR_CHANNELS } };
     const r = await c.post(`/api/v1/cases/${signed.id}/imports`, body);
     expect(r.status).toBe(409);
     expect(r.json.error).toMatch(/the note is signed/);
     expect((await c.post('/api/v1/cases/no-such-case/imports', body)).status).toBe(404);
     expect((await c.post('/api/v1/cases/no-such-case/imports/preview', body)).status).toBe(404);
-    expect(counts()).toEqual(before);
+    expect(await counts()).toEqual(before);
   });
 
   it('refuses an upload over 20 MB with 413 and a clear message', async () => {
@@ -258,11 +252,11 @@ describe('monitor CSV import: refusals', () => {
     const nurse = await signedIn('nurse');
     const target = await openCase(nurse.c);
     const { cookie } = await signedIn('safety');
-    const before = counts();
+    const before = await counts();
     const mapping = { timeColumn: 'Time (s)', timeFormat: 'seconds', channels: HOUR_CHANNELS };
     expect((await postFile(cookie, `/api/v1/cases/${target.id}/imports/preview`, fixture('gaps.csv'), 'gaps.csv', mapping)).status).toBe(403);
     expect((await postFile(cookie, `/api/v1/cases/${target.id}/imports`, fixture('gaps.csv'), 'gaps.csv', mapping)).status).toBe(403);
-    expect(counts()).toEqual(before);
+    expect(await counts()).toEqual(before);
   });
 
   it('refuses an import sent from another site (Origin check)', async () => {

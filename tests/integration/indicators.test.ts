@@ -1,5 +1,5 @@
 /**
- * Safety indicators through the real built server and a real SQLite file seeded with the
+ * Safety indicators through the real built server and a real database seeded with the
  * fictional demo unit: the numbers against SQL counts written here independently of the
  * indicator code, de-identification of every export format, the freeze of an issued version,
  * the PDF rendered with poppler-utils, and who may do what.
@@ -10,11 +10,10 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startApp, type AppServer } from '../helpers/appServer';
+import { closeTestSql, onPostgres, startApp, testSql, type AppServer } from '../helpers/appServer';
 import { Client } from '../helpers/client';
-import { openRawDatabase } from '@/lib/db/sqlite';
-import { isoDb } from '@/lib/db/sqlite';
-import { openDb } from '@/lib/db/client';
+import { closeDb, openDb } from '@/lib/db/client';
+import { asDate, type SqlValue } from '@/lib/db/sql';
 import { refreshSummary } from '@/lib/db/summaries';
 import { lastCompletePeriod, periodContaining, shiftPeriod, type IndicatorReport, type Period } from '@/lib/indicators';
 import { localDate } from '@/lib/_shared/time';
@@ -60,13 +59,8 @@ class BinClient {
 
 const as = (role: string) => new BinClient(app.url).signIn(role);
 
-function sql<T = Record<string, unknown>>(query: string, ...params: unknown[]): T[] {
-  const db = openRawDatabase(app.dbFile);
-  try {
-    return db.prepare(query).all(...params) as T[];
-  } finally {
-    db.close();
-  }
+function sql<T = Record<string, unknown>>(query: string, ...params: SqlValue[]): Promise<T[]> {
+  return testSql(app).all<T>(query, params);
 }
 
 function pdftotext(bytes: Uint8Array): string {
@@ -96,31 +90,37 @@ function inkPerPage(bytes: Uint8Array): number[] {
 
 // ── independent SQL definitions of every indicator (written from docs/indicators.md, not from the code) ──
 
-const SUMMARY_JOIN = `LEFT JOIN CaseSummary s ON s.caseId = b.id AND s.ruleSetId = 'plateau-default' AND s.ruleSetVersion = 1`;
+const SUMMARY_JOIN = `LEFT JOIN "CaseSummary" s ON s."caseId" = b."id" AND s."ruleSetId" = 'plateau-default' AND s."ruleSetVersion" = 1`;
+/**
+ * An instant as a number that orders like it, and the gap between two such numbers in seconds
+ * (to the millisecond the instants carry): SQLite in Julian days, PostgreSQL in epoch seconds.
+ */
+const T = (x: string) => (onPostgres ? `EXTRACT(EPOCH FROM ${x})` : `julianday(${x})`);
+const GAP_S = (later: string, earlier: string) => (onPostgres ? `(${later} - ${earlier})` : `ROUND((${later} - ${earlier}) * 86400.0, 3)`);
 /** Longest gap (s) between sedation start, manual BP/HR readings and sedation end (or recovery start). */
 const GAP_CTE = `
 WITH sed AS (
-  SELECT c.id AS caseId,
-    (SELECT MIN(julianday(e.at)) FROM CaseEvent e WHERE e.caseId = c.id AND e.voidedAt IS NULL AND e.kind = 'sedation_start') AS s0,
-    COALESCE((SELECT MIN(julianday(e.at)) FROM CaseEvent e WHERE e.caseId = c.id AND e.voidedAt IS NULL AND e.kind = 'sedation_end'),
-             (SELECT MIN(julianday(e.at)) FROM CaseEvent e WHERE e.caseId = c.id AND e.voidedAt IS NULL AND e.kind = 'recovery_start')) AS s1
+  SELECT c."id" AS "caseId",
+    (SELECT MIN(${T('e."at"')}) FROM "CaseEvent" e WHERE e."caseId" = c."id" AND e."voidedAt" IS NULL AND e."kind" = 'sedation_start') AS s0,
+    COALESCE((SELECT MIN(${T('e."at"')}) FROM "CaseEvent" e WHERE e."caseId" = c."id" AND e."voidedAt" IS NULL AND e."kind" = 'sedation_end'),
+             (SELECT MIN(${T('e."at"')}) FROM "CaseEvent" e WHERE e."caseId" = c."id" AND e."voidedAt" IS NULL AND e."kind" = 'recovery_start')) AS s1
   FROM "Case" c),
 pts AS (
-  SELECT caseId, s0 AS t FROM sed WHERE s0 IS NOT NULL AND s1 IS NOT NULL
-  UNION ALL SELECT caseId, s1 FROM sed WHERE s0 IS NOT NULL AND s1 IS NOT NULL
-  UNION ALL SELECT v.caseId, julianday(v.at) FROM ManualVital v JOIN sed ON sed.caseId = v.caseId
-    WHERE v.voidedAt IS NULL AND (v.sbp IS NOT NULL OR v.hr IS NOT NULL) AND julianday(v.at) BETWEEN sed.s0 AND sed.s1),
-gaps AS (SELECT caseId, (t - LAG(t) OVER (PARTITION BY caseId ORDER BY t)) * 86400.0 AS g FROM pts),
-gap AS (SELECT caseId, MAX(g) AS longest FROM gaps GROUP BY caseId)`;
+  SELECT "caseId", s0 AS t FROM sed WHERE s0 IS NOT NULL AND s1 IS NOT NULL
+  UNION ALL SELECT "caseId", s1 FROM sed WHERE s0 IS NOT NULL AND s1 IS NOT NULL
+  UNION ALL SELECT v."caseId", ${T('v."at"')} FROM "ManualVital" v JOIN sed ON sed."caseId" = v."caseId"
+    WHERE v."voidedAt" IS NULL AND (v."sbp" IS NOT NULL OR v."hr" IS NOT NULL) AND ${T('v."at"')} BETWEEN sed.s0 AND sed.s1),
+gaps AS (SELECT "caseId", ${GAP_S('t', 'LAG(t) OVER (PARTITION BY "caseId" ORDER BY t)')} AS g FROM pts),
+gap AS (SELECT "caseId", MAX(g) AS longest FROM gaps GROUP BY "caseId")`;
 
-const SED = `b.plannedDepth IN ('minimal', 'moderate', 'deep')`;
-const MOD = `b.plannedDepth IN ('moderate', 'deep')`;
-const HAS_S = `s.id IS NOT NULL`;
-const CAPNO = `${SED} AND ${HAS_S} AND s.capnoCoveragePct > 0`;
-const SPO2 = `${SED} AND ${HAS_S} AND s.lowestSpo2 IS NOT NULL`;
-const episodes = (rule: string) => `EXISTS (SELECT 1 FROM CaseSummaryRule r WHERE r.summaryId = s.id AND r.ruleId = '${rule}' AND r.episodes > 0)`;
-const intervention = (...kinds: string[]) => `EXISTS (SELECT 1 FROM Intervention i WHERE i.caseId = b.id AND i.voidedAt IS NULL AND i.kind IN (${kinds.map((k) => `'${k}'`).join(', ')}))`;
-const DOC_COMPLETE = `b.asaClass IS NOT NULL AND b.weightKg IS NOT NULL AND b.sbSnoring IS NOT NULL AND b.sbTired IS NOT NULL AND b.sbObserved IS NOT NULL AND b.sbPressure IS NOT NULL AND gap.longest IS NOT NULL AND gap.longest <= 330`;
+const SED = `b."plannedDepth" IN ('minimal', 'moderate', 'deep')`;
+const MOD = `b."plannedDepth" IN ('moderate', 'deep')`;
+const HAS_S = `s."id" IS NOT NULL`;
+const CAPNO = `${SED} AND ${HAS_S} AND s."capnoCoveragePct" > 0`;
+const SPO2 = `${SED} AND ${HAS_S} AND s."lowestSpo2" IS NOT NULL`;
+const episodes = (rule: string) => `EXISTS (SELECT 1 FROM "CaseSummaryRule" r WHERE r."summaryId" = s."id" AND r."ruleId" = '${rule}' AND r."episodes" > 0)`;
+const intervention = (...kinds: string[]) => `EXISTS (SELECT 1 FROM "Intervention" i WHERE i."caseId" = b."id" AND i."voidedAt" IS NULL AND i."kind" IN (${kinds.map((k) => `'${k}'`).join(', ')}))`;
+const DOC_COMPLETE = `b."asaClass" IS NOT NULL AND b."weightKg" IS NOT NULL AND b."sbSnoring" IS NOT NULL AND b."sbTired" IS NOT NULL AND b."sbObserved" IS NOT NULL AND b."sbPressure" IS NOT NULL AND gap.longest IS NOT NULL AND gap.longest <= 330`;
 
 const PROPORTIONS: Record<string, { den: string; num: string }> = {
   hypoxemia: { den: SPO2, num: episodes('hypoxemia') },
@@ -129,20 +129,20 @@ const PROPORTIONS: Record<string, { den: string; num: string }> = {
   prolonged_apnea: { den: CAPNO, num: episodes('prolonged_apnea') },
   positive_pressure_ventilation: { den: SED, num: intervention('bag_mask', 'supraglottic_airway', 'intubation') },
   reversal_agent: { den: SED, num: intervention('naloxone', 'flumazenil') },
-  level_supported_or_above: { den: `${SED} AND ${HAS_S}`, num: `s.caseLevel IN ('supported', 'rescued')` },
-  level_rescued: { den: `${SED} AND ${HAS_S}`, num: `s.caseLevel = 'rescued'` },
+  level_supported_or_above: { den: `${SED} AND ${HAS_S}`, num: `s."caseLevel" IN ('supported', 'rescued')` },
+  level_rescued: { den: `${SED} AND ${HAS_S}`, num: `s."caseLevel" = 'rescued'` },
   procedure_stopped: { den: SED, num: intervention('procedure_stopped') },
-  capnography_90: { den: `${MOD} AND ${HAS_S} AND s.capnoCoveragePct IS NOT NULL`, num: `s.capnoCoveragePct >= 90` },
+  capnography_90: { den: `${MOD} AND ${HAS_S} AND s."capnoCoveragePct" IS NOT NULL`, num: `s."capnoCoveragePct" >= 90` },
   documentation_complete: { den: MOD, num: DOC_COMPLETE },
 };
-const RESPONSE = `${CAPNO} AND ${episodes('apnea')} AND s.firstApneaResponseS IS NOT NULL`;
+const RESPONSE = `${CAPNO} AND ${episodes('apnea')} AND s."firstApneaResponseS" IS NOT NULL`;
 
-function caseIds(p: Period, where: string): string[] {
-  return sql<{ id: string }>(`${GAP_CTE} SELECT b.id FROM "Case" b ${SUMMARY_JOIN} LEFT JOIN gap ON gap.caseId = b.id WHERE b.status = 'signed' AND b.scheduledDate BETWEEN ? AND ? AND (${where})`, p.start, p.end).map((r) => r.id);
+async function caseIds(p: Period, where: string): Promise<string[]> {
+  return (await sql<{ id: string }>(`${GAP_CTE} SELECT b."id" FROM "Case" b ${SUMMARY_JOIN} LEFT JOIN gap ON gap."caseId" = b."id" WHERE b."status" = 'signed' AND b."scheduledDate" BETWEEN ? AND ? AND (${where})`, p.start, p.end)).map((r) => r.id);
 }
 
-function responseTimes(p: Period): number[] {
-  return sql<{ v: number }>(`SELECT s.firstApneaResponseS AS v FROM "Case" b ${SUMMARY_JOIN} WHERE b.status = 'signed' AND b.scheduledDate BETWEEN ? AND ? AND ${RESPONSE}`, p.start, p.end).map((r) => r.v);
+async function responseTimes(p: Period): Promise<number[]> {
+  return (await sql<{ v: number }>(`SELECT s."firstApneaResponseS" AS "v" FROM "Case" b ${SUMMARY_JOIN} WHERE b."status" = 'signed' AND b."scheduledDate" BETWEEN ? AND ? AND ${RESPONSE}`, p.start, p.end)).map((r) => r.v);
 }
 
 /** Hyndman & Fan type 7, written here again. */
@@ -171,7 +171,7 @@ beforeAll(async () => {
   const today = localDate(new Date(), 'Europe/Dublin');
   quarter = lastCompletePeriod('quarter', today);
   // the demo spans the last 6 months; make sure the quarter chosen has cases
-  const n = sql<{ n: number }>(`SELECT COUNT(*) AS n FROM "Case" WHERE status = 'signed' AND scheduledDate BETWEEN ? AND ?`, quarter.start, quarter.end)[0].n;
+  const n = (await sql<{ n: number }>(`SELECT COUNT(*) AS "n" FROM "Case" WHERE "status" = 'signed' AND "scheduledDate" BETWEEN ? AND ?`, quarter.start, quarter.end))[0].n;
   if (n < 20) quarter = shiftPeriod(quarter, 1);
 });
 afterAll(async () => {
@@ -192,7 +192,7 @@ describe('the numbers against independent SQL counts', () => {
     expect(view.status).toBe(200);
     const report: IndicatorReport = view.json.report;
     expect(report.period.label).toBe(quarter.label);
-    expect(report.cases).toBe(sql<{ n: number }>(`SELECT COUNT(*) AS n FROM "Case" WHERE status = 'signed' AND scheduledDate BETWEEN ? AND ?`, quarter.start, quarter.end)[0].n);
+    expect(report.cases).toBe((await sql<{ n: number }>(`SELECT COUNT(*) AS "n" FROM "Case" WHERE "status" = 'signed' AND "scheduledDate" BETWEEN ? AND ?`, quarter.start, quarter.end))[0].n);
     const refs: Record<string, string[]> = view.json.refs;
 
     // resolve every reference once (as the lead would, inside Plateau)
@@ -205,12 +205,12 @@ describe('the numbers against independent SQL counts', () => {
 
     for (const [id, q] of Object.entries(PROPORTIONS)) {
       const ind = report.indicators.find((i) => i.id === id)!;
-      const den = caseIds(quarter, q.den);
-      const num = caseIds(quarter, `${q.den} AND ${q.num}`);
+      const den = await caseIds(quarter, q.den);
+      const num = await caseIds(quarter, `${q.den} AND ${q.num}`);
       expectCell(id, ind.current, den.length, num.length);
       expect(refs[id].map((r) => caseOf.get(r)).sort(), `${id}: the counted cases`).toEqual([...num].sort());
     }
-    const times = responseTimes(quarter);
+    const times = await responseTimes(quarter);
     for (const [id, p] of [['apnea_response_median', 0.5], ['apnea_response_p90', 0.9]] as const) {
       const ind = report.indicators.find((i) => i.id === id)!;
       if (times.length >= 5) expect(ind.current.value!, id).toBeCloseTo(type7(times, p), 6);
@@ -221,7 +221,7 @@ describe('the numbers against independent SQL counts', () => {
 
   it('the JSON API gives the same counts month by month', async () => {
     const lead = await as('lead');
-    const first = sql<{ d: string }>(`SELECT MIN(scheduledDate) AS d FROM "Case" WHERE status = 'signed'`)[0].d;
+    const first = (await sql<{ d: string }>(`SELECT MIN("scheduledDate") AS "d" FROM "Case" WHERE "status" = 'signed'`))[0].d;
     const from = periodContaining('month', first).start;
     const to = lastCompletePeriod('month', localDate(new Date(), 'Europe/Dublin')).end;
     const r = await lead.get(`/api/v1/indicators?from=${from}&to=${to}&scope=all`);
@@ -235,9 +235,9 @@ describe('the numbers against independent SQL counts', () => {
         const p: Period = cell.period;
         if (ind.id in PROPORTIONS) {
           const q = PROPORTIONS[ind.id];
-          expectCell(ind.id, cell, caseIds(p, q.den).length, caseIds(p, `${q.den} AND ${q.num}`).length);
+          expectCell(ind.id, cell, (await caseIds(p, q.den)).length, (await caseIds(p, `${q.den} AND ${q.num}`)).length);
         } else {
-          const times = responseTimes(p);
+          const times = await responseTimes(p);
           if (cell.value !== null) expect(cell.value).toBeCloseTo(type7(times, ind.definition.p), 6);
           else expect(times.length).toBeLessThan(5);
         }
@@ -266,8 +266,8 @@ describe('de-identification of every export format', () => {
     expect(exports.draftCsv.headers.get('content-type')).toMatch(/text\/csv/);
     expect(exports.issuedCsv.headers.get('content-disposition')).toMatch(/attachment; filename="plateau-indicators-.*-v1\.csv"/);
 
-    const patients = sql<{ familyName: string; givenName: string; mrn: string; birthDate: string }>(`SELECT familyName, givenName, mrn, birthDate FROM Patient`);
-    const cases = sql<{ id: string; key: string | null; startAt: string }>(`SELECT id, key, startAt FROM "Case"`);
+    const patients = await sql<{ familyName: string; givenName: string; mrn: string; birthDate: string }>(`SELECT "familyName", "givenName", "mrn", "birthDate" FROM "Patient"`);
+    const cases = (await sql<{ id: string; key: string | null; startAt: unknown }>(`SELECT "id", "key", "startAt" FROM "Case"`)).map((c) => ({ ...c, startAt: typeof c.startAt === 'string' ? c.startAt : asDate(c.startAt).toISOString() })); // SQLite: the stored text
     expect(patients.length).toBeGreaterThan(50);
     const identities = [
       ...patients.flatMap((p) => [p.familyName, p.givenName, p.mrn, p.birthDate]),
@@ -304,26 +304,32 @@ describe('an issued version is frozen', () => {
       csv: (await safety.get(`/api/v1/reports/${issuedV1.id}/export?format=csv`)).text,
       view: (await safety.get(`/api/v1/reports/${issuedV1.id}`)).json.report,
     };
-    const ppvBefore = caseIds(quarter, `${PROPORTIONS.positive_pressure_ventilation.den} AND ${PROPORTIONS.positive_pressure_ventilation.num}`).length;
+    const ppvBefore = (await caseIds(quarter, `${PROPORTIONS.positive_pressure_ventilation.den} AND ${PROPORTIONS.positive_pressure_ventilation.num}`)).length;
 
     // late documentation: six signed cases of the quarter get a bag-mask ventilation entered
     // directly in the database, and their stored summaries are recomputed
-    const targets = sql<{ id: string; at: string }>(
-      `SELECT b.id, (SELECT MIN(e.at) FROM CaseEvent e WHERE e.caseId = b.id AND e.kind = 'sedation_start') AS at
-       FROM "Case" b ${SUMMARY_JOIN} WHERE b.status = 'signed' AND b.scheduledDate BETWEEN ? AND ? AND ${SED} AND ${HAS_S}
-       AND NOT ${intervention('bag_mask', 'supraglottic_airway', 'intubation')} ORDER BY b.id LIMIT 6`,
+    const targets = await sql<{ id: string; at: unknown }>(
+      `SELECT b."id", (SELECT MIN(e."at") FROM "CaseEvent" e WHERE e."caseId" = b."id" AND e."kind" = 'sedation_start') AS "at"
+       FROM "Case" b ${SUMMARY_JOIN} WHERE b."status" = 'signed' AND b."scheduledDate" BETWEEN ? AND ? AND ${SED} AND ${HAS_S}
+       AND NOT ${intervention('bag_mask', 'supraglottic_airway', 'intubation')} ORDER BY b."id" LIMIT 6`,
       quarter.start,
       quarter.end,
     );
     expect(targets).toHaveLength(6);
-    const raw = openRawDatabase(app.dbFile);
-    const ins = raw.prepare(`INSERT INTO Intervention (id, caseId, kind, at, note, createdAt, createdById) VALUES (?, ?, 'bag_mask', ?, 'late entry (test)', ?, NULL)`);
-    for (const t of targets) ins.run(randomUUID(), t.id, isoDb(new Date(new Date(t.at).getTime() + 120_000)), isoDb(new Date()));
-    raw.close();
-    const client = openDb(app.dbFile);
-    for (const t of targets) await refreshSummary(client, t.id, new Date());
-    await client.$disconnect();
-    const ppvAfter = caseIds(quarter, `${PROPORTIONS.positive_pressure_ventilation.den} AND ${PROPORTIONS.positive_pressure_ventilation.num}`).length;
+    await testSql(app).tx(async (q) => {
+      for (const t of targets) {
+        await q.run(`INSERT INTO "Intervention" ("id", "caseId", "kind", "at", "note", "createdAt", "createdById") VALUES (?, ?, 'bag_mask', ?, 'late entry (test)', ?, NULL)`, [randomUUID(), t.id, new Date(asDate(t.at).getTime() + 120_000), new Date()]);
+      }
+    });
+    const client = openDb(app.target);
+    try {
+      for (const t of targets) await refreshSummary(client, t.id, new Date());
+    } finally {
+      await closeDb(client);
+      // On PostgreSQL the client shared this process's pool for the URL with testSql, and closeDb ended it.
+      await closeTestSql(app.target);
+    }
+    const ppvAfter = (await caseIds(quarter, `${PROPORTIONS.positive_pressure_ventilation.den} AND ${PROPORTIONS.positive_pressure_ventilation.num}`)).length;
     expect(ppvAfter).toBe(ppvBefore + 6);
 
     // version 1 is unchanged, byte for byte
@@ -366,7 +372,7 @@ describe('an issued version is frozen', () => {
     expect(again.status).toBe(409);
     expect(again.json.error).toMatch(/version 2 already publishes these numbers/);
 
-    const audit = sql<{ action: string; n: number }>(`SELECT action, COUNT(*) AS n FROM AuditEntry WHERE entity IN ('indicator_report', 'indicator_draft', 'report_case_ref') GROUP BY action`);
+    const audit = await sql<{ action: string; n: number }>(`SELECT "action", COUNT(*) AS "n" FROM "AuditEntry" WHERE "entity" IN ('indicator_report', 'indicator_draft', 'report_case_ref') GROUP BY "action"`);
     const byAction = Object.fromEntries(audit.map((a) => [a.action, a.n]));
     expect(byAction.issue).toBe(2);
     expect(byAction.export).toBeGreaterThanOrEqual(8);

@@ -3,11 +3,10 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startApp, type AppServer } from '../helpers/appServer';
+import { startApp, testSql, type AppServer } from '../helpers/appServer';
 import { Client } from '../helpers/client';
 import { inkPerPage, pdftotext } from '../helpers/pdf';
 import { fhirR4Validator, SCHEMA_PACKAGE, schemaPackageVersion } from '../helpers/fhirSchema';
-import { openRawDatabase } from '@/lib/db/sqlite';
 import { diffNotes } from '@/lib/note';
 
 let app: AppServer;
@@ -74,10 +73,9 @@ describe('the case note', () => {
     expect(late.status).toBe(409);
     const again = await c.post(`/api/v1/cases/${id}/note/sign`, { password: a.password });
     expect(again.status).toBe(409);
-    const db = openRawDatabase(app.dbFile);
-    expect((db.prepare('SELECT status FROM "Case" WHERE id = ?').get(id) as { status: string }).status).toBe('signed');
-    expect((db.prepare("SELECT COUNT(*) AS n FROM AuditEntry WHERE action = 'sign' AND caseId = ?").get(id) as { n: number }).n).toBe(1);
-    db.close();
+    const db = testSql(app);
+    expect((await db.get<{ status: string }>('SELECT "status" FROM "Case" WHERE "id" = ?', [id]))!.status).toBe('signed');
+    expect((await db.get<{ n: number }>(`SELECT COUNT(*) AS "n" FROM "AuditEntry" WHERE "action" = 'sign' AND "caseId" = ?`, [id]))!.n).toBe(1);
   });
 
   it('keeps a signed version unchanged when the unit later changes its rule set; an amendment makes version 2 with a reason and a diff', async () => {
@@ -85,9 +83,7 @@ describe('the case note', () => {
     const id = await documentedCase(nurse);
     await nurse.post(`/api/v1/cases/${id}/note/sign`, { password: a.password, freeText: 'First text.' });
     const v1 = (await nurse.get(`/api/v1/cases/${id}/note`)).json.versions[0];
-    const db = openRawDatabase(app.dbFile);
-    db.prepare("UPDATE Unit SET activeRuleSetId = 'conway-2019', activeRuleSetVersion = 1").run();
-    db.close();
+    await testSql(app).run(`UPDATE "Unit" SET "activeRuleSetId" = 'conway-2019', "activeRuleSetVersion" = 1`);
     try {
       const after = (await nurse.get(`/api/v1/cases/${id}/note`)).json;
       expect(after.versions[0].note.text).toBe(v1.note.text);
@@ -108,9 +104,7 @@ describe('the case note', () => {
       expect(diff.lines.filter((l) => l.op === 'added').map((l) => l.text).join('\n')).toContain('Corrected text.');
       expect(diff.lines.filter((l) => l.op === 'removed').map((l) => l.text).join('\n')).toContain('First text.');
     } finally {
-      const d = openRawDatabase(app.dbFile);
-      d.prepare("UPDATE Unit SET activeRuleSetId = 'plateau-default', activeRuleSetVersion = 1").run();
-      d.close();
+      await testSql(app).run(`UPDATE "Unit" SET "activeRuleSetId" = 'plateau-default', "activeRuleSetVersion" = 1`);
     }
   });
 

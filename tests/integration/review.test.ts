@@ -1,9 +1,9 @@
 /* eslint-disable @typescript-eslint/no-explicit-any -- API responses are JSON of many shapes */
 import Papa from 'papaparse';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startApp, type AppServer } from '../helpers/appServer';
+import { startApp, testSql, type AppServer } from '../helpers/appServer';
 import { Client } from '../helpers/client';
-import { openRawDatabase } from '@/lib/db/sqlite';
+import type { SqlValue } from '@/lib/db/sql';
 import { PLATEAU_DEFAULT_V1 } from '@/lib/rules';
 
 let app: AppServer;
@@ -19,43 +19,45 @@ afterAll(async () => {
   await app?.stop();
 });
 
-function sql<T = any>(query: string, ...args: unknown[]): T[] {
-  const db = openRawDatabase(app.dbFile);
-  try {
-    return db.prepare(query).all(...args) as T[];
-  } finally {
-    db.close();
-  }
+function sql<T = any>(query: string, ...args: SqlValue[]): Promise<T[]> {
+  return testSql(app).all<T>(query, args);
 }
 
 /** Written here from the tables, independently of lib/db/statsRows and lib/review. */
-const REVIEWED = `FROM "Case" c JOIN CaseSummary s ON s.caseId = c.id AND s.ruleSetId = 'plateau-default' AND s.ruleSetVersion = 1
-  WHERE c.status = 'signed' AND c.scheduledDate >= ? AND c.scheduledDate <= ?`;
+const REVIEWED_FROM = `FROM "Case" c JOIN "CaseSummary" s ON s."caseId" = c."id" AND s."ruleSetId" = 'plateau-default' AND s."ruleSetVersion" = 1
+  WHERE c."status" = 'signed'`;
+const REVIEWED = `${REVIEWED_FROM} AND c."scheduledDate" >= ? AND c."scheduledDate" <= ?`;
 
-function direct(from: string, to: string) {
-  const n = (where = '', ...args: unknown[]) => (sql<{ n: number }>(`SELECT COUNT(*) AS n ${REVIEWED} ${where}`, from, to, ...args)[0].n);
-  const withRule = (rule: string) => n(`AND EXISTS (SELECT 1 FROM CaseSummaryRule r WHERE r.summaryId = s.id AND r.ruleId = ? AND r.episodes > 0)`, rule);
-  const responses = sql<{ v: number }>(
-    `SELECT s.firstApneaResponseS AS v ${REVIEWED} AND s.firstApneaResponseS IS NOT NULL AND EXISTS (SELECT 1 FROM CaseSummaryRule r WHERE r.summaryId = s.id AND r.ruleId = 'apnea' AND r.episodes > 0) ORDER BY v`,
-    from,
-    to,
+async function direct(from: string, to: string) {
+  const n = async (where = '', ...args: SqlValue[]) => (await sql<{ n: number }>(`SELECT COUNT(*) AS "n" ${REVIEWED} ${where}`, from, to, ...args))[0].n;
+  const withRule = (rule: string) => n(`AND EXISTS (SELECT 1 FROM "CaseSummaryRule" r WHERE r."summaryId" = s."id" AND r."ruleId" = ? AND r."episodes" > 0)`, rule);
+  const responses = (
+    await sql<{ v: number }>(
+      `SELECT s."firstApneaResponseS" AS "v" ${REVIEWED} AND s."firstApneaResponseS" IS NOT NULL AND EXISTS (SELECT 1 FROM "CaseSummaryRule" r WHERE r."summaryId" = s."id" AND r."ruleId" = 'apnea' AND r."episodes" > 0) ORDER BY "v"`,
+      from,
+      to,
+    )
   ).map((r) => r.v);
   const median = responses.length === 0 ? null : responses.length % 2 ? responses[(responses.length - 1) / 2] : (responses[responses.length / 2 - 1] + responses[responses.length / 2]) / 2;
+  const rules: Record<string, number> = {};
+  for (const r of PLATEAU_DEFAULT_V1.rules) rules[r.id] = await withRule(r.id);
+  const levels: Record<string, number> = {};
+  for (const l of ['none', 'observed', 'corrected', 'supported', 'rescued']) levels[l] = await n('AND s."caseLevel" = ?', l);
   return {
-    cases: n(),
-    anyEpisode: n('AND s.episodeCount > 0'),
-    rules: Object.fromEntries(PLATEAU_DEFAULT_V1.rules.map((r) => [r.id, withRule(r.id)])),
-    levels: Object.fromEntries(['none', 'observed', 'corrected', 'supported', 'rescued'].map((l) => [l, n('AND s.caseLevel = ?', l)])),
-    supportedOrAbove: n(`AND s.caseLevel IN ('supported', 'rescued')`),
-    major: n('AND s.majorPhysiology = 1'),
-    queue: n(`AND (s.caseLevel IN ('supported', 'rescued') OR s.majorPhysiology = 1 OR s.firstApneaResponseS > (SELECT reviewResponseLimitS FROM Unit WHERE id = c.unitId))`),
+    cases: await n(),
+    anyEpisode: await n('AND s."episodeCount" > 0'),
+    rules,
+    levels,
+    supportedOrAbove: await n(`AND s."caseLevel" IN ('supported', 'rescued')`),
+    major: await n('AND s."majorPhysiology" = TRUE'),
+    queue: await n(`AND (s."caseLevel" IN ('supported', 'rescued') OR s."majorPhysiology" = TRUE OR s."firstApneaResponseS" > (SELECT u."reviewResponseLimitS" FROM "Unit" u WHERE u."id" = c."unitId"))`),
     responses,
     median,
-    signedWithout: sql<{ n: number }>(`SELECT COUNT(*) AS n FROM "Case" c WHERE c.status = 'signed' AND c.scheduledDate >= ? AND c.scheduledDate <= ? AND NOT EXISTS (SELECT 1 FROM CaseSummary s WHERE s.caseId = c.id AND s.ruleSetId = 'plateau-default' AND s.ruleSetVersion = 1)`, from, to)[0].n,
+    signedWithout: (await sql<{ n: number }>(`SELECT COUNT(*) AS "n" FROM "Case" c WHERE c."status" = 'signed' AND c."scheduledDate" >= ? AND c."scheduledDate" <= ? AND NOT EXISTS (SELECT 1 FROM "CaseSummary" s WHERE s."caseId" = c."id" AND s."ruleSetId" = 'plateau-default' AND s."ruleSetVersion" = 1)`, from, to))[0].n,
   };
 }
 
-const months = () => sql<{ m: string }>(`SELECT DISTINCT substr(scheduledDate, 1, 7) AS m FROM "Case" WHERE status = 'signed' ORDER BY m`).map((r) => r.m);
+const months = async () => (await sql<{ m: string }>(`SELECT DISTINCT substr("scheduledDate", 1, 7) AS "m" FROM "Case" WHERE "status" = 'signed' ORDER BY "m"`)).map((r) => r.m);
 
 describe('the monthly review, checked against the database', () => {
   it('opens by default on the last full month', async () => {
@@ -67,13 +69,13 @@ describe('the monthly review, checked against the database', () => {
   });
 
   it('gives headline numerators and denominators equal to direct counts, for every seeded month', async () => {
-    const all = months();
+    const all = await months();
     expect(all.length).toBeGreaterThanOrEqual(6);
     for (const month of all) {
       const r = await lead.get(`/api/v1/review?month=${month}`);
       expect(r.status, month).toBe(200);
       const h = r.json.review.headline;
-      const d = direct(r.json.review.period.from, r.json.review.period.to);
+      const d = await direct(r.json.review.period.from, r.json.review.period.to);
       const fig = (id: string) => h.figures.find((f: any) => f.id === id);
       expect(h.cases, month).toBe(d.cases);
       expect(h.withoutSummary, month).toBe(d.signedWithout);
@@ -93,7 +95,7 @@ describe('the monthly review, checked against the database', () => {
   });
 
   it('draws the trend from SQL counts that agree with each month’s own headline, and counts the O/E reference', async () => {
-    const month = months().at(-2)!;
+    const month = (await months()).at(-2)!;
     const { json } = await lead.get(`/api/v1/review?month=${month}`);
     expect(json.review.trend.months).toHaveLength(12);
     const headlines = new Map<string, any>();
@@ -105,13 +107,13 @@ describe('the monthly review, checked against the database', () => {
       }
     }
     const ref = json.review.reference;
-    const d = direct(ref.from, ref.to);
+    const d = await direct(ref.from, ref.to);
     expect(json.review.focus).toBe('rule:apnea');
     expect(json.review.observedExpected.reference).toEqual({ cases: d.cases, events: d.rules.apnea });
   });
 
   it('has breakdowns whose rows sum to the total, and totals equal to the headline', async () => {
-    const month = months().at(-2)!;
+    const month = (await months()).at(-2)!;
     const { json } = await lead.get(`/api/v1/review?month=${month}`);
     const h = json.review.headline;
     expect(json.review.breakdowns).toHaveLength(10);
@@ -127,7 +129,7 @@ describe('the monthly review, checked against the database', () => {
   });
 
   it('lists behind a number exactly the cases it counts', async () => {
-    const month = months().at(-2)!;
+    const month = (await months()).at(-2)!;
     const { json } = await lead.get(`/api/v1/review?month=${month}`);
     const apnea = json.review.headline.figures.find((f: any) => f.id === 'rule:apnea');
     const list = await lead.get(`/api/v1/review/cases?month=${month}&figure=rule:apnea`);
@@ -140,7 +142,7 @@ describe('the monthly review, checked against the database', () => {
   });
 
   it('exports tables as CSV that parse and match the figures', async () => {
-    const month = months().at(-2)!;
+    const month = (await months()).at(-2)!;
     const { json } = await lead.get(`/api/v1/review?month=${month}`);
     const r = await lead.get(`/api/v1/review/export?table=headline&month=${month}`);
     expect(r.status).toBe(200);
@@ -169,52 +171,52 @@ describe('the monthly review, checked against the database', () => {
 });
 
 describe('recording a review', () => {
-  const caseId = () => sql<{ id: string }>(`SELECT c.id ${REVIEWED.replace('c.scheduledDate >= ? AND c.scheduledDate <= ?', '1')} ORDER BY s.episodeCount DESC, c.id LIMIT 1`)[0].id;
+  const caseId = async () => (await sql<{ id: string }>(`SELECT c."id" ${REVIEWED_FROM} ORDER BY s."episodeCount" DESC, c."id" LIMIT 1`))[0].id;
 
   it('saves status, category, comment and follow-up, audited in the same transaction', async () => {
-    const id = caseId();
-    const before = sql<{ n: number }>('SELECT COUNT(*) AS n FROM AuditEntry')[0].n;
+    const id = await caseId();
+    const before = (await sql<{ n: number }>('SELECT COUNT(*) AS "n" FROM "AuditEntry"'))[0].n;
     const r = await lead.req('PUT', `/api/v1/review/cases/${id}`, { status: 'reviewed', category: 'dosing', comment: 'Second propofol bolus 60 s after the first.', followUp: 'Discuss titration at the team meeting.', version: 0 });
     expect(r.status).toBe(200);
     expect(r.json.review).toMatchObject({ status: 'reviewed', category: 'dosing', version: 1, reviewer: app.account('lead').displayName });
-    const stored = sql('SELECT * FROM CaseReview WHERE caseId = ?', id)[0];
+    const stored = (await sql('SELECT * FROM "CaseReview" WHERE "caseId" = ?', id))[0];
     expect(stored).toMatchObject({ status: 'reviewed', category: 'dosing', version: 1, followUp: 'Discuss titration at the team meeting.' });
-    const audit = sql("SELECT * FROM AuditEntry WHERE entity = 'case_review' AND caseId = ? ORDER BY seq", id);
+    const audit = await sql(`SELECT * FROM "AuditEntry" WHERE "entity" = 'case_review' AND "caseId" = ? ORDER BY "seq"`, id);
     expect(audit).toHaveLength(1);
     expect(audit[0]).toMatchObject({ action: 'create', role: 'lead', entityId: stored.id });
     expect(JSON.parse(audit[0].after)).toMatchObject({ status: 'reviewed', category: 'dosing', version: 1 });
-    expect(sql<{ n: number }>('SELECT COUNT(*) AS n FROM AuditEntry')[0].n).toBe(before + 1);
+    expect((await sql<{ n: number }>('SELECT COUNT(*) AS "n" FROM "AuditEntry"'))[0].n).toBe(before + 1);
 
     const upd = await lead.req('PUT', `/api/v1/review/cases/${id}`, { status: 'reviewed', category: 'patient_factors', comment: 'Obese, STOP-Bang 6.', followUp: '', version: 1 });
     expect(upd.status).toBe(200);
     expect(upd.json.review.version).toBe(2);
-    const audit2 = sql("SELECT * FROM AuditEntry WHERE entity = 'case_review' AND caseId = ? ORDER BY seq", id);
+    const audit2 = await sql(`SELECT * FROM "AuditEntry" WHERE "entity" = 'case_review' AND "caseId" = ? ORDER BY "seq"`, id);
     expect(audit2.map((a) => a.action)).toEqual(['create', 'update']);
     expect(JSON.parse(audit2[1].before)).toMatchObject({ category: 'dosing', version: 1 });
   });
 
   it('refuses a stale edit with 409 and a clear message, and saves nothing', async () => {
-    const id = caseId();
-    const stored = sql('SELECT * FROM CaseReview WHERE caseId = ?', id)[0];
-    const audit = sql<{ n: number }>('SELECT COUNT(*) AS n FROM AuditEntry')[0].n;
+    const id = await caseId();
+    const stored = (await sql('SELECT * FROM "CaseReview" WHERE "caseId" = ?', id))[0];
+    const audit = (await sql<{ n: number }>('SELECT COUNT(*) AS "n" FROM "AuditEntry"'))[0].n;
     const stale = await lead.req('PUT', `/api/v1/review/cases/${id}`, { status: 'to_review', comment: 'my older view', version: 1 });
     expect(stale.status).toBe(409);
     expect(stale.json.error).toMatch(/saved by .* after you opened it .*Nothing was saved/);
-    expect(sql('SELECT * FROM CaseReview WHERE caseId = ?', id)[0]).toEqual(stored);
-    expect(sql<{ n: number }>('SELECT COUNT(*) AS n FROM AuditEntry')[0].n).toBe(audit);
+    expect((await sql('SELECT * FROM "CaseReview" WHERE "caseId" = ?', id))[0]).toEqual(stored);
+    expect((await sql<{ n: number }>('SELECT COUNT(*) AS "n" FROM "AuditEntry"'))[0].n).toBe(audit);
     const fresh = await lead.req('PUT', `/api/v1/review/cases/${id}`, { status: 'to_review', version: 0 });
     expect(fresh.status).toBe(409);
   });
 
   it('asks for a category before a case is marked reviewed', async () => {
-    const other = sql<{ id: string }>(`SELECT id FROM "Case" WHERE status = 'signed' AND id NOT IN (SELECT caseId FROM CaseReview) LIMIT 1`)[0].id;
+    const other = (await sql<{ id: string }>(`SELECT "id" FROM "Case" WHERE "status" = 'signed' AND "id" NOT IN (SELECT "caseId" FROM "CaseReview") ORDER BY "id" LIMIT 1`))[0].id;
     const r = await lead.req('PUT', `/api/v1/review/cases/${other}`, { status: 'reviewed', version: 0 });
     expect(r.status).toBe(422);
     expect(r.json.error).toMatch(/^category:/);
   });
 
   it('shows the review in the queue and in the case view', async () => {
-    const id = caseId();
+    const id = await caseId();
     const c = await lead.get(`/api/v1/review/cases/${id}`);
     expect(c.status).toBe(200);
     expect(c.json.review).toMatchObject({ version: 2, category: 'patient_factors' });
@@ -229,13 +231,13 @@ describe('recording a review', () => {
 describe('the review queue', () => {
   it('holds exactly the cases that meet the queue rule, with their review status', async () => {
     let found: any = null;
-    for (const month of months()) {
+    for (const month of await months()) {
       const q = await lead.get(`/api/v1/review/queue?month=${month}`);
       expect(q.status).toBe(200);
       const { json } = await lead.get(`/api/v1/review?month=${month}`);
       expect(q.json.queue).toHaveLength(json.review.headline.figures.find((f: any) => f.id === 'in_review_queue').numerator);
       const period = json.review.period;
-      const d = direct(period.from, period.to);
+      const d = await direct(period.from, period.to);
       expect(q.json.queue).toHaveLength(d.queue);
       for (const item of q.json.queue) expect(item.reasons.length).toBeGreaterThan(0);
       if (!found && q.json.queue.length) found = { month, item: q.json.queue.find((i: any) => !i.review) ?? q.json.queue[0] };
@@ -264,10 +266,10 @@ describe('rule sets', () => {
     expect(same.json.version).toBe(1);
     const v2 = await lead.post('/api/v1/rule-sets', { ruleSet: { ...mine, version: 1, rules: mine.rules.map((r) => (r.id === 'apnea' ? { ...r, minDurationS: 25 } : r)) } });
     expect(v2.json).toEqual({ id: 'kestrel-bay-local', version: 2, created: true });
-    const stored = sql('SELECT version, definition FROM RuleSetVersion WHERE ruleSetId = ? ORDER BY version', 'kestrel-bay-local');
+    const stored = await sql('SELECT "version", "definition" FROM "RuleSetVersion" WHERE "ruleSetId" = ? ORDER BY "version"', 'kestrel-bay-local');
     expect(stored.map((s) => s.version)).toEqual([1, 2]);
     expect(JSON.parse(stored[0].definition).rules.find((r: any) => r.id === 'apnea').minDurationS).toBe(30);
-    expect(sql("SELECT action FROM AuditEntry WHERE entity = 'rule_set'")).toHaveLength(2);
+    expect(await sql(`SELECT "action" FROM "AuditEntry" WHERE "entity" = 'rule_set'`)).toHaveLength(2);
     const builtIn = await lead.post('/api/v1/rule-sets', { ruleSet: PLATEAU_DEFAULT_V1 });
     expect(builtIn.status).toBe(409);
     const bad = await lead.post('/api/v1/rule-sets', { ruleSet: { ...mine, rules: [{ ...mine.rules[0], minDurationS: -1 }] } });
@@ -278,9 +280,9 @@ describe('rule sets', () => {
   });
 
   it('compares a month under another rule set once its summaries are computed', async () => {
-    const month = months().at(-2)!;
+    const month = (await months()).at(-2)!;
     const from = `${month}-01`;
-    const to = sql<{ d: string }>(`SELECT max(scheduledDate) AS d FROM "Case" WHERE substr(scheduledDate, 1, 7) = ?`, month)[0].d;
+    const to = (await sql<{ d: string }>(`SELECT max("scheduledDate") AS "d" FROM "Case" WHERE substr("scheduledDate", 1, 7) = ?`, month))[0].d;
     let before = await lead.get(`/api/v1/review/compare?from=${from}&to=${to}&rs=kestrel-bay-local@1`);
     expect(before.status).toBe(200);
     expect(before.json.missing).toBe(before.json.total);
@@ -291,7 +293,7 @@ describe('rule sets', () => {
     }
     const c = before.json.comparison;
     expect(before.json.missing).toBe(0);
-    expect(c.cases).toBe(direct(from, to).cases);
+    expect(c.cases).toBe((await direct(from, to)).cases);
     const apnea = c.figures.find((f: any) => f.id === 'rule:apnea');
     // a 30 s minimum can only lose apneas that the 20 s rule found
     expect(apnea.b.numerator).toBeLessThanOrEqual(apnea.a.numerator);
@@ -317,7 +319,7 @@ describe('who may see the review', () => {
       const c = new Client(app.url);
       const a = app.account(role);
       await c.signIn(a.username, a.password);
-      const caseId = sql<{ id: string }>('SELECT id FROM "Case" LIMIT 1')[0].id;
+      const caseId = (await sql<{ id: string }>('SELECT "id" FROM "Case" ORDER BY "id" LIMIT 1'))[0].id;
       for (const p of [...pages, `/review/cases/${caseId}`]) expect((await c.get(p)).status, p).toBe(403);
       for (const [m, p] of apis) expect((await c.req(m, p)).status, p).toBe(403);
       expect((await c.req('PUT', `/api/v1/review/cases/${caseId}`, { status: 'to_review', version: 0 })).status).toBe(403);

@@ -7,9 +7,9 @@ import { randomUUID } from 'node:crypto';
 import { spawnSync } from 'node:child_process';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { ROOT, startApp, type AppServer } from '../helpers/appServer';
+import { ROOT, startApp, testSql, type AppServer } from '../helpers/appServer';
 import { Client } from '../helpers/client';
-import { openRawDatabase } from '@/lib/db/sqlite';
+import { asDate, type SqlValue } from '@/lib/db/sql';
 
 let app: AppServer;
 beforeAll(async () => {
@@ -19,17 +19,7 @@ afterAll(async () => {
   await app?.stop();
 });
 
-const q = <T,>(sql: string, ...args: unknown[]): T[] => {
-  const raw = openRawDatabase(app.dbFile);
-  const rows = raw.prepare(sql).all(...args) as T[];
-  raw.close();
-  return rows;
-};
-const exec = (sql: string, ...args: unknown[]) => {
-  const raw = openRawDatabase(app.dbFile);
-  raw.prepare(sql).run(...args);
-  raw.close();
-};
+const q = <T,>(sql: string, ...args: SqlValue[]): Promise<T[]> => testSql(app).all<T>(sql, args);
 
 async function signedIn(role: string, which = 0) {
   const a = app.accounts.filter((x) => x.role === role)[which];
@@ -57,11 +47,15 @@ describe('sign-in rate limiting and lockout', () => {
     expect(locked.status).toBe(429);
     expect(Number(locked.headers.get('retry-after'))).toBeGreaterThan(800);
     expect(locked.json.error).toMatch(/Too many failed sign-ins for this account\. Sign-in is locked; try again in 15 minutes \(at \d\d:\d\d UTC\)\./);
-    expect(q<{ n: number }>("SELECT COUNT(*) AS n FROM AuditEntry WHERE action = 'sign_in_locked' AND after LIKE ?", `%${a.username}%`)[0].n).toBe(1);
+    expect((await q<{ n: number }>(`SELECT COUNT(*) AS "n" FROM "AuditEntry" WHERE "action" = 'sign_in_locked' AND "after" LIKE ?`, `%${a.username}%`))[0].n).toBe(1);
     // Another account is not affected.
     await signedIn('nurse', 0);
     // After the lockout the right password works again (the failures are moved 16 minutes into the past).
-    exec("UPDATE SignInAttempt SET at = strftime('%Y-%m-%dT%H:%M:%fZ', at, '-16 minutes') WHERE username = ?", a.username.toLowerCase());
+    const failures = await q<{ id: number; at: unknown }>('SELECT "id", "at" FROM "SignInAttempt" WHERE "username" = ?', a.username.toLowerCase());
+    expect(failures.length).toBeGreaterThanOrEqual(3);
+    await testSql(app).tx(async (t) => {
+      for (const f of failures) await t.run('UPDATE "SignInAttempt" SET "at" = ? WHERE "id" = ?', [new Date(asDate(f.at).getTime() - 16 * 60_000), f.id]);
+    });
     expect((await c.post('/api/v1/session', { username: a.username, password: a.password })).status).toBe(200);
   });
 
@@ -165,7 +159,7 @@ describe('two users writing the same case at once', () => {
     };
     const results = await Promise.all(Array.from({ length: 60 }, (_, i) => write(i % 2 ? n1 : lead, i)));
     for (const r of results) expect(r.status, r.text).toBe(201);
-    const stored = q<{ id: string }>('SELECT id FROM Dose WHERE caseId = ? UNION SELECT id FROM ManualVital WHERE caseId = ?', caseId, caseId).map((r) => r.id);
+    const stored = (await q<{ id: string }>('SELECT "id" FROM "Dose" WHERE "caseId" = ? UNION SELECT "id" FROM "ManualVital" WHERE "caseId" = ?', caseId, caseId)).map((r) => r.id);
     expect(new Set(stored)).toEqual(new Set(ids));
     const sheet = await n1.get(`/api/v1/cases/${caseId}/sheet`);
     expect(sheet.status).toBe(200);
@@ -183,11 +177,11 @@ describe('two users writing the same case at once', () => {
     expect(conflicts.length).toBe(targets.length - 1);
     for (const r of conflicts) expect(r.json.error).toMatch(/changes\.weightKg: changed by someone else/);
     const winner = targets[rs.findIndex((r) => r.status === 200)];
-    expect(q<{ weightKg: number }>('SELECT weightKg FROM "Case" WHERE id = ?', caseId)[0].weightKg).toBe(winner);
+    expect((await q<{ weightKg: number }>('SELECT "weightKg" FROM "Case" WHERE "id" = ?', caseId))[0].weightKg).toBe(winner);
     // Edits of different facts at the same moment both land.
     const [a, b] = await Promise.all([n1.req('PATCH', `/api/v1/cases/${caseId}`, { changes: { allergies: { from: null, to: 'latex' } } }), lead.req('PATCH', `/api/v1/cases/${caseId}`, { changes: { heightCm: { from: null, to: 170 } } })]);
     expect([a.status, b.status]).toEqual([200, 200]);
-    expect(q('SELECT allergies, heightCm FROM "Case" WHERE id = ?', caseId)[0]).toEqual({ allergies: 'latex', heightCm: 170 });
+    expect((await q('SELECT "allergies", "heightCm" FROM "Case" WHERE "id" = ?', caseId))[0]).toEqual({ allergies: 'latex', heightCm: 170 });
   });
 
   it('leaves the audit chain intact', () => {

@@ -1,8 +1,8 @@
 /* eslint-disable @typescript-eslint/no-explicit-any -- JSON responses of many shapes */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startApp, type AppServer } from '../helpers/appServer';
+import { startApp, testSql, type AppServer } from '../helpers/appServer';
 import { Client } from '../helpers/client';
-import { openRawDatabase } from '@/lib/db/sqlite';
+import { asDate, type SqlValue } from '@/lib/db/sql';
 import { generateCapnogram } from '@/lib/capnogram';
 
 let app: AppServer;
@@ -13,13 +13,9 @@ afterAll(async () => {
   await app?.stop();
 });
 
-function query<T>(sql: string, ...args: unknown[]): T {
-  const db = openRawDatabase(app.dbFile);
-  try {
-    return db.prepare(sql).get(...args) as T;
-  } finally {
-    db.close();
-  }
+/** The first row of a query on the app's database. */
+async function query<T>(sql: string, ...args: SqlValue[]): Promise<T> {
+  return (await testSql(app).get<T>(sql, args))!;
 }
 async function signedIn(role: string): Promise<Client> {
   const c = new Client(app.url);
@@ -51,17 +47,17 @@ describe('raw CO2 waveform: import, storage and the viewer', () => {
     const opened = await c.post('/api/v1/cases', { patient: { mrn: 'WAVE-0001', familyName: 'Waveform', givenName: 'Wil', birthDate: '1970-06-01', sex: 'male' }, procedureType: 'bronchoscopy', roomId: 'room-4', plannedDepth: 'moderate' });
     expect(opened.status, opened.text).toBe(201);
     caseId = opened.json.id;
-    const before = query<{ n: number }>('SELECT COUNT(*) AS n FROM AuditEntry').n;
+    const before = (await query<{ n: number }>('SELECT COUNT(*) AS "n" FROM "AuditEntry"')).n;
     const r = await c.post(`/api/v1/cases/${caseId}/waveform`, { text, fileName: 'capno.csv', rateHz: 100, unit: 'mmHg', clockOffsetS: 120 });
     expect(r.status, r.text).toBe(201);
     expect(r.json).toMatchObject({ ok: true, samples: 60000, chunks: 60, startS: 120, endS: 720, badValues: 0 });
     expect(r.json.breaths).toBeGreaterThan(130);
-    const start = Date.parse(query<{ startAt: string }>('SELECT startAt FROM "Case" WHERE id = ?', caseId).startAt);
-    const first = query<any>("SELECT startMs, rateHz, count, length(data) AS bytes, source FROM WaveformChunk WHERE caseId = ? ORDER BY startMs LIMIT 1", caseId);
+    const start = asDate((await query<{ startAt: unknown }>('SELECT "startAt" FROM "Case" WHERE "id" = ?', caseId)).startAt).getTime();
+    const first = await query<any>(`SELECT "startMs", "rateHz", "count", length("data") AS "bytes", "source" FROM "WaveformChunk" WHERE "caseId" = ? ORDER BY "startMs" LIMIT 1`, caseId);
     expect(first).toEqual({ startMs: start + 120_000, rateHz: 100, count: 1000, bytes: 4000, source: 'csv' });
-    expect(query<any>('SELECT fileName, rateHz, samples FROM WaveformImport WHERE caseId = ?', caseId)).toEqual({ fileName: 'capno.csv', rateHz: 100, samples: 60000 });
-    expect(query<{ n: number }>('SELECT COUNT(*) AS n FROM AuditEntry').n).toBe(before + 1);
-    expect(query<any>("SELECT action, caseId FROM AuditEntry WHERE entity = 'waveform_import' ORDER BY seq DESC LIMIT 1")).toEqual({ action: 'import', caseId });
+    expect(await query<any>('SELECT "fileName", "rateHz", "samples" FROM "WaveformImport" WHERE "caseId" = ?', caseId)).toEqual({ fileName: 'capno.csv', rateHz: 100, samples: 60000 });
+    expect((await query<{ n: number }>('SELECT COUNT(*) AS "n" FROM "AuditEntry"')).n).toBe(before + 1);
+    expect(await query<any>(`SELECT "action", "caseId" FROM "AuditEntry" WHERE "entity" = 'waveform_import' ORDER BY "seq" DESC LIMIT 1`)).toEqual({ action: 'import', caseId });
   });
 
   it('then the same file again is refused and nothing is added', async () => {
@@ -69,7 +65,7 @@ describe('raw CO2 waveform: import, storage and the viewer', () => {
     const r = await c.post(`/api/v1/cases/${caseId}/waveform`, { text, fileName: 'again.csv', rateHz: 100, unit: 'mmHg', clockOffsetS: 120 });
     expect(r.status).toBe(409);
     expect(r.json.error).toMatch(/already imported/);
-    expect(query<{ n: number }>('SELECT COUNT(*) AS n FROM WaveformChunk WHERE caseId = ?', caseId).n).toBe(60);
+    expect((await query<{ n: number }>('SELECT COUNT(*) AS "n" FROM "WaveformChunk" WHERE "caseId" = ?', caseId)).n).toBe(60);
   });
 
   it('refuses a wrong stated rate, an overlap and a bad body, naming the field', async () => {

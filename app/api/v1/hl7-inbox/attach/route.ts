@@ -1,10 +1,9 @@
 import { z } from 'zod';
 import { authorizeApi } from '@/lib/server/access';
 import { checkOrigin, errorResponse, HttpError, parseJson } from '@/lib/server/http';
-import { databaseFile, openRawDatabase } from '@/lib/db/sqlite';
-import { db } from '@/lib/db/client';
+import { db, sql } from '@/lib/db/client';
 import { AttachError, attachInbox, type AttachSelection } from '@/lib/db/hl7Store';
-import { appDebouncer, liveRaw } from '@/lib/server/liveBus';
+import { appDebouncer } from '@/lib/server/liveBus';
 import { now } from '@/lib/server/clock';
 
 const Body = z.union([
@@ -27,7 +26,7 @@ export async function POST(req: Request) {
     }
     let r;
     try {
-      r = attachInbox(liveRaw(databaseFile(), openRawDatabase), sel, b.caseId, { id: user.id, role: user.role, origin: req.headers.get('origin') }, now());
+      r = await attachInbox(sql(), sel, b.caseId, { id: user.id, role: user.role, origin: req.headers.get('origin') }, now());
     } catch (e) {
       if (e instanceof AttachError) throw new HttpError(e.status, e.message);
       throw e;

@@ -8,6 +8,7 @@ import { db } from '@/lib/db/client';
 import { now } from '@/lib/server/clock';
 import { requestOrigin } from '@/lib/server/session';
 import { caseToFhirBundle } from '@/lib/export';
+import { writeTx } from '@/lib/db/tx';
 
 const Query = z.object({ version: z.coerce.number().int().min(1, { message: 'must be a version number' }).optional() });
 
@@ -24,7 +25,7 @@ export async function GET(req: Request, ctx: { params: Promise<{ id: string }> }
     const c = await db().case.findUniqueOrThrow({ where: { id }, select: { patientId: true } });
     const bundle = caseToFhirBundle({ ...n, ids: { baseUrl: `${url.origin}/fhir`, patient: c.patientId, encounter: `enc-${id}`.slice(0, 40), case: id.slice(0, 40) }, generatedAt: t.toISOString() });
     const origin = await requestOrigin();
-    await db().$transaction((tx) => appendAudit(tx, { at: t, actorId: user.id, role: user.role, action: 'export', entity: 'fhir_bundle', entityId: id, caseId: id, after: { version: n.draft ? 'draft' : n.note.version }, origin }));
+    await writeTx(db(), (tx) => appendAudit(tx, { at: t, actorId: user.id, role: user.role, action: 'export', entity: 'fhir_bundle', entityId: id, caseId: id, after: { version: n.draft ? 'draft' : n.note.version }, origin }));
     return new Response(JSON.stringify(bundle, null, 2), {
       headers: { 'content-type': 'application/fhir+json', 'content-disposition': `attachment; filename="plateau-case-${id.slice(0, 8)}-${n.draft ? 'draft' : `v${n.note.version}`}.fhir.json"`, 'cache-control': 'no-store' },
     });

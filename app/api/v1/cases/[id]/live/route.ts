@@ -1,8 +1,8 @@
 import { z } from 'zod';
 import { authorizeApi } from '@/lib/server/access';
 import { errorResponse } from '@/lib/server/http';
-import { databaseFile, openRawDatabase } from '@/lib/db/sqlite';
-import { lastSampleId, liveRaw, samplesAfter } from '@/lib/server/liveBus';
+import { sql } from '@/lib/db/client';
+import { lastSampleId, samplesAfter } from '@/lib/server/liveBus';
 
 const Query = z.object({ after: z.coerce.number({ message: 'must be a sample id' }).int().min(0).optional() });
 const POLL_MS = 1000;
@@ -21,19 +21,31 @@ export async function GET(req: Request, ctx: { params: Promise<{ id: string }> }
   try {
     const { id } = await ctx.params;
     const q = Query.parse(Object.fromEntries(new URL(req.url).searchParams));
-    const raw = liveRaw(databaseFile(), openRawDatabase);
-    if (!raw.prepare('SELECT 1 FROM "Case" WHERE id = ?').get(id)) return Response.json({ error: `case ${id} not found` }, { status: 404 });
+    const port = sql();
+    if (!(await port.get('SELECT 1 AS "one" FROM "Case" WHERE "id" = ?', [id]))) return Response.json({ error: `case ${id} not found` }, { status: 404 });
     const lastEvent = Number(req.headers.get('last-event-id'));
-    let after = q.after ?? (Number.isInteger(lastEvent) && lastEvent > 0 ? lastEvent : lastSampleId(raw, id));
+    let after = q.after ?? (Number.isInteger(lastEvent) && lastEvent > 0 ? lastEvent : await lastSampleId(port, id));
     const enc = new TextEncoder();
     let timer: NodeJS.Timeout | undefined;
     let lastSent = Date.now();
+    let closed = false;
     const stream = new ReadableStream<Uint8Array>({
       start(controller) {
-        controller.enqueue(enc.encode(`retry: 2000\nevent: ready\nid: ${after}\ndata: ${JSON.stringify({ after })}\n\n`));
-        const tick = () => {
+        const close = () => {
+          if (closed) return;
+          closed = true;
+          clearTimeout(timer);
           try {
-            const rows = samplesAfter(raw, id, after);
+            controller.close();
+          } catch {
+            /* already closed */
+          }
+        };
+        controller.enqueue(enc.encode(`retry: 2000\nevent: ready\nid: ${after}\ndata: ${JSON.stringify({ after })}\n\n`));
+        const tick = async () => {
+          try {
+            const rows = await samplesAfter(port, id, after);
+            if (closed) return;
             if (rows.length > 0) {
               after = rows[rows.length - 1].id;
               controller.enqueue(enc.encode(`event: samples\nid: ${after}\ndata: ${JSON.stringify({ samples: rows })}\n\n`));
@@ -42,22 +54,16 @@ export async function GET(req: Request, ctx: { params: Promise<{ id: string }> }
               controller.enqueue(enc.encode(': ping\n\n'));
               lastSent = Date.now();
             }
-            timer = setTimeout(tick, rows.length >= 2000 ? 0 : POLL_MS);
+            timer = setTimeout(() => void tick(), rows.length >= 2000 ? 0 : POLL_MS);
           } catch {
-            controller.close();
+            close();
           }
         };
-        timer = setTimeout(tick, POLL_MS);
-        req.signal.addEventListener('abort', () => {
-          clearTimeout(timer);
-          try {
-            controller.close();
-          } catch {
-            /* already closed */
-          }
-        });
+        timer = setTimeout(() => void tick(), POLL_MS);
+        req.signal.addEventListener('abort', close);
       },
       cancel() {
+        closed = true;
         clearTimeout(timer);
       },
     });

@@ -10,6 +10,7 @@ import { pdfFonts } from '@/lib/server/fonts';
 import { requestOrigin } from '@/lib/server/session';
 import { chartDataFromCase } from '@/lib/note';
 import { renderNotePdf } from '@/lib/note/pdf';
+import { writeTx } from '@/lib/db/tx';
 
 const Query = z.object({
   version: z.coerce.number().int().min(1, { message: 'must be a version number' }).optional(),
@@ -27,7 +28,7 @@ export async function GET(req: Request, ctx: { params: Promise<{ id: string }> }
     const n = await noteForExport(db(), id, q.version ?? null, t);
     const pdf = await renderNotePdf(n.note, chartDataFromCase(n.record, n.analysis, n.facts), { pageSize: q.size, ...pdfFonts() });
     const origin = await requestOrigin();
-    await db().$transaction((tx) => appendAudit(tx, { at: t, actorId: user.id, role: user.role, action: 'export', entity: 'note_pdf', entityId: id, caseId: id, after: { version: n.draft ? 'draft' : n.note.version, size: q.size }, origin }));
+    await writeTx(db(), (tx) => appendAudit(tx, { at: t, actorId: user.id, role: user.role, action: 'export', entity: 'note_pdf', entityId: id, caseId: id, after: { version: n.draft ? 'draft' : n.note.version, size: q.size }, origin }));
     const name = `plateau-note-${id.slice(0, 8)}-${n.draft ? 'draft' : `v${n.note.version}`}.pdf`;
     return new Response(Buffer.from(pdf), { headers: { 'content-type': 'application/pdf', 'content-disposition': `inline; filename="${name}"`, 'cache-control': 'no-store' } });
   } catch (e) {
