@@ -4,9 +4,11 @@ import type { Sql } from './sql';
 /**
  * appendAudit for Sql-port transactions (seed, bulk imports, the HL7 feed, bedside entries): the
  * same entry, the same chain. Call with the port `tx()` gave you, so the entry commits with the
- * change.
+ * change. It joins the writers' order first (`serialize`), so even a transaction begun for one
+ * key only appends to one unbroken chain.
  */
 export async function appendAuditSql(q: Sql, e: AuditInput): Promise<void> {
+  await q.serialize();
   const last = await q.get<{ seq: number; hash: string }>('SELECT "seq", "hash" FROM "AuditEntry" ORDER BY "seq" DESC LIMIT 1');
   const r = nextAuditRow(last, e);
   await q.run(

@@ -7,7 +7,7 @@ import { MMHG_PER_KPA } from '@/lib/domain/channel';
 import { ConflictError, NotFoundError } from './cases';
 import { writeTx } from './tx';
 import { sqlOf } from './client';
-import { asDate, ident, type Sql, type SqlValue } from './sql';
+import { asDate, ident, isUniqueViolation, type Sql, type SqlValue } from './sql';
 
 export interface Actor {
   id: string;
@@ -47,12 +47,31 @@ function insert(t: Sql, table: string, values: Record<string, SqlValue>): Promis
  * benchmark in docs/trust.md), and the ORM costs several times more per statement.
  */
 export async function recordEntry(client: PrismaClient, caseId: string, e: EntryInput, actor: Actor, now: Date): Promise<EntryResult> {
+  try {
+    return await storeEntry(client, caseId, e, actor, now);
+  } catch (err) {
+    // The same device id sent to two cases at once: the second insert meets the first's key.
+    if (isUniqueViolation(err)) throw new ConflictError(`id: entry ${e.id} already exists with other content`);
+    throw err;
+  }
+}
+
+async function storeEntry(client: PrismaClient, caseId: string, e: EntryInput, actor: Actor, now: Date): Promise<EntryResult> {
+  // Checks and the row under the case's own lock; only the audit append, at the end, waits for
+  // every writer (PostgreSQL: a short critical section for the one global lock; SQLite: one
+  // writer anyway).
   return sqlOf(client).tx(async (t) => {
     const c = await t.get<{ id: string; unitId: string; status: string }>('SELECT "id", "unitId", "status" FROM "Case" WHERE "id" = ?', [caseId]);
     if (!c) throw new NotFoundError(`case ${caseId} not found`);
     const at = new Date(e.at);
-    const audit = (action: string, entity: string, entityId: string, after: unknown, before?: unknown) =>
-      appendAuditSql(t, { at: now, actorId: actor.id, role: actor.role, action, entity, entityId, caseId, before, after, origin: actor.origin });
+    const audit = async (action: string, entity: string, entityId: string, after: unknown, before?: unknown) => {
+      // Now in every writer's order (appendAuditSql serialises): the case may have been signed
+      // while this entry waited, and a signed case takes no more entries.
+      await t.serialize();
+      const now2 = await t.get<{ status: string }>('SELECT "status" FROM "Case" WHERE "id" = ?', [caseId]);
+      if (now2?.status === 'signed') throw new ConflictError('case: the note is signed; amend the note instead of changing entries');
+      await appendAuditSql(t, { at: now, actorId: actor.id, role: actor.role, action, entity, entityId, caseId, before, after, origin: actor.origin });
+    };
     const guardSigned = () => {
       if (c.status === 'signed') throw new ConflictError('case: the note is signed; amend the note instead of changing entries');
     };
@@ -86,7 +105,9 @@ export async function recordEntry(client: PrismaClient, caseId: string, e: Entry
         const move = STATUS_AFTER_EVENT[e.kind];
         if (move && move.from.includes(c.status)) {
           status = move.to;
-          await t.run('UPDATE "Case" SET "status" = ?, "version" = "version" + 1, "updatedAt" = ? WHERE "id" = ?', [status, now, caseId]);
+          // Only from the status read above: a case signed meanwhile is not moved back.
+          const moved = await t.run(`UPDATE "Case" SET "status" = ?, "version" = "version" + 1, "updatedAt" = ? WHERE "id" = ? AND "status" = ?`, [status, now, caseId, c.status]);
+          if (moved !== 1) throw new ConflictError('case: its status changed while this entry was saved; reload and enter it again');
         }
         await audit('create', 'event', e.id, { kind: e.kind, at: e.at, status, note: e.note ?? null });
         return { id: e.id, created: true, status };
@@ -144,7 +165,7 @@ export async function recordEntry(client: PrismaClient, caseId: string, e: Entry
         return { id: e.id, created: true, status: c.status };
       }
     }
-  });
+  }, { only: `case:${caseId}` });
 }
 
 function same(isSame: boolean, id: string, status: string): EntryResult {

@@ -14,7 +14,7 @@ import { createHash } from 'node:crypto';
 import pg from 'pg';
 import { PrismaPg } from '@prisma/adapter-pg';
 import type { SqlMigrationAwareDriverAdapterFactory } from '@prisma/driver-adapter-utils';
-import { Mutex, chunkRows, ident, numberedPlaceholders, type Sql, type SqlValue } from './sql';
+import { Mutex, chunkRows, ident, numberedPlaceholders, type Sql, type SqlValue, type TxOptions } from './sql';
 
 /** The advisory lock key every Plateau write transaction takes (an arbitrary constant: "PLAT"). */
 export const WRITE_LOCK_KEY = 0x504c4154;
@@ -106,9 +106,9 @@ async function insertManyOn(on: Queryable, table: string, columns: readonly stri
   return n;
 }
 
-/** A connection pool for a database URL (PLATEAU_PG_POOL connections, default 10). */
-export function newPgPool(url: string): pg.Pool {
-  const pool = new pg.Pool({ connectionString: url, max: Number(process.env.PLATEAU_PG_POOL ?? 10) || 10 });
+/** A connection pool for a database URL (`max` connections; default PLATEAU_PG_POOL, else 10). */
+export function newPgPool(url: string, max: number = Number(process.env.PLATEAU_PG_POOL ?? 10) || 10): pg.Pool {
+  const pool = new pg.Pool({ connectionString: url, max });
   // An idle client's error (server restart) must not crash the app; the next query reconnects.
   pool.on('error', () => undefined);
   return pool;
@@ -178,13 +178,21 @@ export function pgMigrationAdapter(url: string): SqlMigrationAwareDriverAdapterF
   };
 }
 
-/** The Sql port on a PostgreSQL database, owning its pool (which a Prisma client may share). */
+/**
+ * The Sql port on a PostgreSQL database, owning its pools: `pool` for reads (which a Prisma
+ * client may share) and a small one of its own for write transactions. A write transaction holds
+ * its connection while it waits for a lock; on one shared pool, a queue of such writers took
+ * every connection and reads (the bedside sheet's dozen) waited behind them.
+ */
 export class PgSql implements Sql {
   readonly dialect = 'postgresql' as const;
+  private readonly writes: pg.Pool;
   constructor(
     readonly url: string,
     readonly pool: pg.Pool = newPgPool(url),
-  ) {}
+  ) {
+    this.writes = newPgPool(url, Math.max(2, Math.ceil((Number(process.env.PLATEAU_PG_POOL ?? 10) || 10) / 2)));
+  }
 
   async all<T>(text: string, params?: readonly SqlValue[]): Promise<T[]> {
     return (await query<T>(this.pool, text, params)).rows;
@@ -199,12 +207,17 @@ export class PgSql implements Sql {
     if (rows.length === 0) return 0;
     return this.tx((q) => q.insertMany(table, columns, rows, opts));
   }
-  async tx<T>(fn: (q: Sql) => Promise<T>): Promise<T> {
-    const client = await this.pool.connect();
+  async tx<T>(fn: (q: Sql) => Promise<T>, opts?: TxOptions): Promise<T> {
+    const client = await this.writes.connect();
     const port = new PgTxSql(client);
     try {
       await client.query('BEGIN');
-      await client.query(WRITE_LOCK_SQL);
+      // A key's own lock: (1, hash of the key) never meets the one-number WRITE_LOCK_KEY.
+      if (opts?.only) await client.query({ text: 'SELECT pg_advisory_xact_lock(1, hashtext($1))', values: [opts.only] });
+      else {
+        await client.query(WRITE_LOCK_SQL);
+        port.serialized = true;
+      }
       const out = await fn(port);
       port.done = true;
       await client.query('COMMIT');
@@ -217,8 +230,12 @@ export class PgSql implements Sql {
       client.release();
     }
   }
+  async serialize(): Promise<void> {
+    throw new Error('serialize() belongs inside tx(): use the port tx() gives you');
+  }
   async close(): Promise<void> {
     await this.pool.end().catch(() => undefined);
+    await this.writes.end().catch(() => undefined);
   }
 }
 
@@ -229,6 +246,8 @@ export class PgSql implements Sql {
 class PgTxSql implements Sql {
   readonly dialect = 'postgresql' as const;
   done = false;
+  /** Whether this transaction holds the write lock (every tx but one begun with `only`). */
+  serialized = false;
   private readonly one = new Mutex();
   constructor(private readonly client: pg.PoolClient) {}
   private check() {
@@ -250,9 +269,15 @@ class PgTxSql implements Sql {
     this.check();
     return this.one.run(() => insertManyOn(this.client, table, columns, rows, !!opts.ignoreConflicts));
   }
-  async tx<T>(fn: (q: Sql) => Promise<T>): Promise<T> {
+  async tx<T>(fn: (q: Sql) => Promise<T>, _opts?: TxOptions): Promise<T> {
     this.check();
     return fn(this);
+  }
+  /** Advisory locks are re-entrant: taking the write lock again where it is held costs a round trip, nothing more. */
+  async serialize(): Promise<void> {
+    if (this.serialized) return;
+    await this.run(WRITE_LOCK_SQL);
+    this.serialized = true;
   }
   async close(): Promise<void> {}
 }

@@ -17,6 +17,10 @@ export type Dialect = 'sqlite' | 'postgresql';
 
 export type SqlValue = string | number | boolean | null | Date | Uint8Array | bigint;
 
+export interface TxOptions {
+  only?: string;
+}
+
 export interface Sql {
   readonly dialect: Dialect;
   /** Every row of a query. */
@@ -34,8 +38,17 @@ export interface Sql {
    * A write transaction, serialised with every other Plateau writer on the database (SQLite:
    * BEGIN IMMEDIATE; PostgreSQL: a transaction-scoped advisory lock), so read-check-write inside
    * it sees no concurrent change and the audit chain cannot fork. Rolls back when `fn` throws.
+   * `opts.only`: a transaction that writes derived data of one key and appends no audit entry
+   * (a case's summary) need only exclude writers of that key; on PostgreSQL it then takes a lock
+   * of that key instead of the one every writer takes (SQLite has one writer anyway).
    */
-  tx<T>(fn: (q: Sql) => Promise<T>): Promise<T>;
+  tx<T>(fn: (q: Sql) => Promise<T>, opts?: TxOptions): Promise<T>;
+  /**
+   * Inside a transaction begun with `only`: from here on, also wait for and exclude every other
+   * writer (PostgreSQL: take the one write lock; a no-op where it is already held, and on
+   * SQLite). appendAuditSql calls it, so the audit chain is one line whoever appends.
+   */
+  serialize(): Promise<void>;
   /** Closes the connections (scripts and tests; the app keeps one port for its lifetime). */
   close(): Promise<void>;
 }

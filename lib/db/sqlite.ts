@@ -8,7 +8,7 @@ import path from 'node:path';
 import Database from 'better-sqlite3';
 import { PrismaBetterSqlite3 } from '@prisma/adapter-better-sqlite3';
 import type { SqlDriverAdapter, SqlMigrationAwareDriverAdapterFactory } from '@prisma/driver-adapter-utils';
-import { Mutex, ident, type Sql, type SqlValue } from './sql';
+import { Mutex, ident, type Sql, type SqlValue, type TxOptions } from './sql';
 
 export const BUSY_TIMEOUT_MS = 10_000;
 // journal_mode is persistent in the file and needs the database to itself, so it is set once
@@ -175,7 +175,8 @@ export class SqliteSql implements Sql {
     return this.tx((q) => q.insertMany(table, columns, rows, opts));
   }
 
-  async tx<T>(fn: (q: Sql) => Promise<T>): Promise<T> {
+  // opts.only changes nothing here: SQLite has one writer.
+  async tx<T>(fn: (q: Sql) => Promise<T>, _opts?: TxOptions): Promise<T> {
     if (this.shared) {
       const w = await this.shared();
       const held = await w.begin();
@@ -210,6 +211,8 @@ export class SqliteSql implements Sql {
       throw e;
     }
   }
+
+  async serialize(): Promise<void> {}
 
   async close(): Promise<void> {
     await this.lock.run(async () => {
@@ -258,9 +261,10 @@ class SqliteTxSql implements Sql {
     this.check();
     return insertManyOn(this.st, table, columns, rows, !!opts.ignoreConflicts);
   }
-  async tx<T>(fn: (q: Sql) => Promise<T>): Promise<T> {
+  async tx<T>(fn: (q: Sql) => Promise<T>, _opts?: TxOptions): Promise<T> {
     this.check();
     return fn(this);
   }
+  async serialize(): Promise<void> {}
   async close(): Promise<void> {}
 }

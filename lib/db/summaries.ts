@@ -70,6 +70,10 @@ async function storeSummary(q: Sql, caseId: string, rs: RuleSet, a: Analysis, ha
     ];
   });
   const firstApnea = a.episodes.find((e) => e.rule === 'apnea');
+  // An unsigned case's summary is its own business: only a second store of the same summary need
+  // wait (a bedside sheet stores them often). A signed case's touches the statistics rollups, so
+  // it waits for every writer, like a rollup rebuild does (lib/db/statsMonths.ts).
+  const status = await q.get<{ status: string }>('SELECT "status" FROM "Case" WHERE "id" = ?', [caseId]);
   await q.tx(async (t) => {
     await t.run('DELETE FROM "CaseSummaryRule" WHERE "summaryId" = ?', [id]);
     await t.run('DELETE FROM "CaseSummary" WHERE "id" = ?', [id]);
@@ -101,7 +105,7 @@ async function storeSummary(q: Sql, caseId: string, rs: RuleSet, a: Analysis, ha
     // the next statistics read (or the bulk operation that called this) rebuilds.
     const c = await t.get<{ status: string; unitId: string; scheduledDate: string }>('SELECT "status", "unitId", "scheduledDate" FROM "Case" WHERE "id" = ?', [caseId]);
     if (c?.status === 'signed') await t.run('DELETE FROM "StatsMonth" WHERE "ruleSetId" = ? AND "ruleSetVersion" = ? AND "unitId" = ? AND "month" = ?', [rs.id, rs.version, c.unitId, c.scheduledDate.slice(0, 7)]);
-  });
+  }, status?.status === 'signed' ? undefined : { only: `summary:${id}` });
 }
 
 /** Recomputes every case's summary for its unit's active rule set; returns how many. */

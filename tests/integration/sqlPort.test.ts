@@ -12,6 +12,9 @@ import { appendAudit } from '@/lib/db/audit';
 import { appendAuditSql } from '@/lib/db/auditSql';
 import { verifyAuditChain } from '@/lib/db/auditVerify';
 import { asBool, asDate, isUniqueViolation, type Sql } from '@/lib/db/sql';
+import { recordEntry } from '@/lib/db/entries';
+import { signNote } from '@/lib/db/notes';
+import { ConflictError } from '@/lib/db/cases';
 
 let d: TestDatabase;
 let client: Db;
@@ -93,6 +96,30 @@ describe(`the Sql port on ${process.env.PLATEAU_TEST_DIALECT ?? 'sqlite'}`, () =
     expect((await client.drug.findUniqueOrThrow({ where: { id: 'drug-counter' } })).sortOrder).toBe(40);
   });
 
+  it('never lands a bedside entry on a case signed while it waited: every accepted entry is in the chain before the signature', async () => {
+    const nurse = await client.user.create({ data: { id: 'user-race', username: 'race.nurse', displayName: 'Race Nurse', role: 'nurse', passwordHash: 'x', unitId: 'unit-1' } });
+    await client.drug.create({ data: { id: 'drug-race', unitId: 'unit-1', name: 'propofol', drugClass: 'sedative', defaultUnit: 'mg' } });
+    const actor = { id: nurse.id, role: 'nurse', origin: 'test' };
+    const tries = Array.from({ length: 30 }, (_, i) =>
+      recordEntry(client, 'case-1', { type: 'dose', id: `race-${i}`, at: new Date(Date.UTC(2026, 2, 2, 9, 1, i)).toISOString(), drugId: 'drug-race', amount: 10, unit: 'mg', route: 'IV' }, actor, new Date()).then(
+        () => `race-${i}`,
+        (e: unknown) => (e instanceof ConflictError ? null : Promise.reject(e)),
+      ),
+    );
+    const signing = (async () => {
+      await new Promise((r) => setTimeout(r, 5));
+      await signNote(client, 'case-1', null, actor, new Date());
+    })();
+    const accepted = (await Promise.all(tries)).filter((x): x is string => x !== null);
+    await signing;
+    const rows = await q.all<{ seq: number; action: string; entityId: string | null }>(`SELECT "seq", "action", "entityId" FROM "AuditEntry" WHERE "caseId" = ? ORDER BY "seq"`, ['case-1']);
+    const signedAt = rows.find((r) => r.action === 'sign')!.seq;
+    for (const id of accepted) expect(rows.find((r) => r.entityId === id)!.seq).toBeLessThan(signedAt);
+    const stored = await q.all<{ id: string }>(`SELECT "id" FROM "Dose" WHERE "caseId" = ? AND "id" LIKE 'race-%'`, ['case-1']);
+    expect(stored.map((r) => r.id).sort()).toEqual([...accepted].sort());
+    expect((await verifyAuditChain(q)).ok).toBe(true);
+  });
+
   it('keeps one unbroken audit chain when the ORM and the port append at the same time', async () => {
     const at = new Date('2026-03-02T12:00:00Z');
     await Promise.all(
@@ -103,6 +130,7 @@ describe(`the Sql port on ${process.env.PLATEAU_TEST_DIALECT ?? 'sqlite'}`, () =
       ),
     );
     const v = await verifyAuditChain(q);
-    expect(v).toEqual({ ok: true, entries: 30 });
+    expect(v.ok).toBe(true);
+    expect(v.entries).toBeGreaterThanOrEqual(30);
   });
 });
