@@ -1,5 +1,5 @@
-// Runs every test: unit, then a production build, then the integration suite against the built
-// server twice — on SQLite and on PostgreSQL — then browser tests in Debian Chromium. Prints one
+// Runs every test: unit, then a production build, then against the built server the integration
+// suite and the browser tests (Debian Chromium) on SQLite, then both again on PostgreSQL. Prints one
 // closing line for CI: `tests: N passed, N failed`.
 // PostgreSQL: the server at PLATEAU_TEST_PG_URL (a role that may create databases), else a
 // throwaway cluster started here from Debian's postgresql packages (scripts/pgServer.mjs).
@@ -18,7 +18,7 @@ const next = path.join(root, 'node_modules', 'next', 'dist', 'bin', 'next');
 const chromium = process.env.PLATEAU_CHROMIUM ?? '/usr/bin/chromium';
 const requireBrowser = process.env.PLATEAU_REQUIRE_BROWSER === '1';
 const requirePostgres = process.env.PLATEAU_REQUIRE_POSTGRES === '1';
-const only = process.argv[2]; // optional: unit | integration | integration-sqlite | integration-postgresql | e2e
+const only = process.argv[2]; // optional: unit | integration | integration-sqlite | integration-postgresql | e2e | e2e-sqlite | e2e-postgresql
 
 let passed = 0;
 let failed = 0;
@@ -58,49 +58,68 @@ function loud(lines) {
   console.warn('!'.repeat(78) + '\n');
 }
 
-async function integrationOnPostgres() {
-  let url = process.env.PLATEAU_TEST_PG_URL;
-  let server = null;
-  if (!url) {
-    if (!postgresBinDir()) {
-      if (requirePostgres) {
-        console.error('\n!!! PostgreSQL not found: the PostgreSQL integration run is required here (PLATEAU_REQUIRE_POSTGRES=1) — failing.\n');
-        failed += 1;
-        ok = false;
-      } else loud(['INTEGRATION TESTS ON POSTGRESQL SKIPPED: no PostgreSQL server programs found.', 'Install them (Debian: apt-get install -y postgresql) or set PLATEAU_TEST_PG_URL.']);
-      return;
-    }
-    console.log('\n── starting a throwaway PostgreSQL server (scripts/pgServer.mjs) ──');
-    server = await startTempPostgres();
-    url = server.url;
-  }
-  console.log(`\n── integration tests on PostgreSQL (${url.replace(/:[^:@/]*@/, ':***@')}) ──`);
-  try {
-    project('integration', { ...process.env, PLATEAU_TEST_DIALECT: 'postgresql', PLATEAU_TEST_PG_URL: url }, 'integration-postgresql');
-  } finally {
-    server?.stop();
-  }
-}
-
-if (!only || only === 'unit') project('unit');
-const needServer = !only || only.startsWith('integration') || only === 'e2e';
-const built = needServer && (process.env.PLATEAU_SKIP_BUILD === '1' || build());
-if (built && (!only || only === 'integration' || only === 'integration-sqlite')) {
-  console.log('\n── integration tests on SQLite ──');
-  project('integration', { ...process.env, PLATEAU_TEST_DIALECT: 'sqlite' }, 'integration-sqlite');
-}
-if (built && (!only || only === 'integration' || only === 'integration-postgresql')) await integrationOnPostgres();
-if (built && (!only || only === 'e2e')) {
-  if (fs.existsSync(chromium)) {
-    project('e2e');
-  } else if (requireBrowser) {
+/** Whether the browser tests can run here (fails the run, once, when required and missing). */
+let browserMissingSaid = false;
+function browserAvailable() {
+  if (fs.existsSync(chromium)) return true;
+  if (browserMissingSaid) return false;
+  browserMissingSaid = true;
+  if (requireBrowser) {
     console.error(`\n!!! Chromium not found at ${chromium}: browser tests are required here (PLATEAU_REQUIRE_BROWSER=1) — failing.\n`);
     failed += 1;
     ok = false;
   } else {
     loud([`BROWSER TESTS SKIPPED: Chromium not found at ${chromium}.`, 'Install it (Debian: apt-get install -y chromium) to run them.']);
   }
+  return false;
 }
+
+/** The integration suite, then the browser tests, on one PostgreSQL server (each test makes its own database). */
+async function onPostgres({ integration, e2e }) {
+  let url = process.env.PLATEAU_TEST_PG_URL;
+  let server = null;
+  if (!url) {
+    if (!postgresBinDir()) {
+      if (requirePostgres) {
+        console.error('\n!!! PostgreSQL not found: the PostgreSQL runs are required here (PLATEAU_REQUIRE_POSTGRES=1) — failing.\n');
+        failed += 1;
+        ok = false;
+      } else loud(['TESTS ON POSTGRESQL SKIPPED: no PostgreSQL server programs found.', 'Install them (Debian: apt-get install -y postgresql) or set PLATEAU_TEST_PG_URL.']);
+      return;
+    }
+    console.log('\n── starting a throwaway PostgreSQL server (scripts/pgServer.mjs) ──');
+    server = await startTempPostgres();
+    url = server.url;
+  }
+  const env = { ...process.env, PLATEAU_TEST_DIALECT: 'postgresql', PLATEAU_TEST_PG_URL: url };
+  const shown = url.replace(/:[^:@/]*@/, ':***@');
+  try {
+    if (integration) {
+      console.log(`\n── integration tests on PostgreSQL (${shown}) ──`);
+      project('integration', env, 'integration-postgresql');
+    }
+    if (e2e && browserAvailable()) {
+      console.log(`\n── browser tests on PostgreSQL (${shown}) ──`);
+      project('e2e', env, 'e2e-postgresql');
+    }
+  } finally {
+    server?.stop();
+  }
+}
+
+if (!only || only === 'unit') project('unit');
+const needServer = !only || only.startsWith('integration') || only.startsWith('e2e');
+const built = needServer && (process.env.PLATEAU_SKIP_BUILD === '1' || build());
+const wants = (name) => !only || only === name || only === name.split('-')[0];
+if (built && wants('integration-sqlite')) {
+  console.log('\n── integration tests on SQLite ──');
+  project('integration', { ...process.env, PLATEAU_TEST_DIALECT: 'sqlite' }, 'integration-sqlite');
+}
+if (built && wants('e2e-sqlite') && browserAvailable()) {
+  console.log('\n── browser tests on SQLite ──');
+  project('e2e', { ...process.env, PLATEAU_TEST_DIALECT: 'sqlite' }, 'e2e-sqlite');
+}
+if (built && (wants('integration-postgresql') || wants('e2e-postgresql'))) await onPostgres({ integration: wants('integration-postgresql'), e2e: wants('e2e-postgresql') });
 
 console.log(`tests: ${passed} passed, ${failed} failed${skipped ? `, ${skipped} skipped` : ''}`);
 process.exit(ok && failed === 0 ? 0 : 1);

@@ -1,8 +1,9 @@
 /**
  * The one schema source (prisma/schema.prisma, written for SQLite) and the committed migration
  * histories, one per database: prisma/migrations/sqlite and prisma/migrations/postgresql. The
- * PostgreSQL schema is derived from the source here — only the datasource provider and the
- * client's output folder differ — so there is no second schema to keep by hand.
+ * PostgreSQL schema is derived from the source here — only the datasource provider, the
+ * client's output folder and the width of the keys marked `// 64-bit on PostgreSQL` differ — so
+ * there is no second schema to keep by hand.
  */
 import fs from 'node:fs';
 import path from 'node:path';
@@ -23,9 +24,17 @@ export function providerOf(dialect: Dialect): string {
   return dialect === 'sqlite' ? 'sqlite' : 'postgresql';
 }
 
+// A sample key outgrows PostgreSQL's 32-bit integer within a few years of a large system's 1 Hz
+// traces; SQLite's INTEGER PRIMARY KEY is 64-bit already.
+const WIDE_KEY = /^(\s*\w+\s+)Int(\s+@id @default\(autoincrement\(\)\))( \/\/ 64-bit on PostgreSQL)$/gm;
+
 /**
  * The schema for a dialect: the source itself for SQLite; for PostgreSQL the same models with
- * the provider switched and the client generated into lib/db/generated-pg.
+ * the provider switched, the keys marked `// 64-bit on PostgreSQL` made BigInt, and the client
+ * generated into lib/db/generated-pg.
+ *
+ * @example
+ * schemaText('postgresql') // datasource provider "postgresql"; Sample.id BigInt
  */
 export function schemaText(dialect: Dialect, source: string = fs.readFileSync(SCHEMA_PATH, 'utf8')): string {
   if (dialect === 'sqlite') return source;
@@ -34,7 +43,7 @@ export function schemaText(dialect: Dialect, source: string = fs.readFileSync(SC
   if (!provider.test(source) || !output.test(source)) throw new Error('prisma/schema.prisma: expected provider "sqlite" and output "../lib/db/generated"');
   return (
     '// DERIVED from prisma/schema.prisma by lib/db/migrationFiles.ts — do not edit; edit the source.\n' +
-    source.replace(provider, '$1"postgresql"').replace(output, '$1"../../lib/db/generated-pg"')
+    source.replace(provider, '$1"postgresql"').replace(output, '$1"../../lib/db/generated-pg"').replace(WIDE_KEY, '$1BigInt$2$3')
   );
 }
 

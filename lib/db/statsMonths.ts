@@ -7,8 +7,10 @@
  *
  * Why it stays right: a signed case is frozen — no entry, fact or sample can be added, voided or
  * re-timed (lib/db/entries.ts, sampleImport, hl7Store refuse) — so its row changes only when its
- * summary is stored again (a new rule-set version, or the rules recomputed). Both signing and
- * storing a signed case's summary rebuild the month they touch. A reader also compares each
+ * summary is stored again (a new rule-set version, or the rules recomputed). Signing a case
+ * rebuilds its month; storing a signed case's summary drops its month's rollup for the next read
+ * to rebuild; and the two never interleave (rebuildStatsMonth and lib/db/summaries take the
+ * case's summary lock, then the write lock). A reader also compares each
  * rollup's case count with the live count of signed cases (an index-only query) and its packing
  * format with the code's, and rebuilds any that differ or are missing, inside a write
  * transaction so a rebuild never interleaves with a summary being stored. Names of rooms,
@@ -35,9 +37,21 @@ interface Key {
 
 const lastDay = (month: string) => `${month}-31`;
 
-/** Packs the signed cases of one unit-month under a rule-set version and stores the rollup. */
-export async function rebuildStatsMonth(q: Sql, ruleSet: { id: string; version: number }, key: Key, now: Date): Promise<{ cases: number; digest: string; rows: PackedStatsRow[] }> {
+/** A case's CaseSummary id under a rule-set version. */
+export const summaryId = (caseId: string, rs: { id: string; version: number }) => `${caseId}:${rs.id}:${rs.version}`;
+
+/** The lock a summary is stored under (lib/db/summaries.ts), and that a rebuild after signing takes first. */
+export const summaryLockKey = (caseId: string, rs: { id: string; version: number }) => `summary:${summaryId(caseId, rs)}`;
+
+/**
+ * Packs the signed cases of one unit-month under a rule-set version and stores the rollup.
+ * `opts.caseId`: a case just signed, whose summary may be being stored this moment (it was
+ * stored under its own lock while unsigned): the rebuild takes that lock before the write lock,
+ * the order a summary store takes them in, so it packs the summary that store leaves.
+ */
+export async function rebuildStatsMonth(q: Sql, ruleSet: { id: string; version: number }, key: Key, now: Date, opts: { caseId?: string } = {}): Promise<{ cases: number; digest: string; rows: PackedStatsRow[] }> {
   return q.tx(async (t) => {
+    if (opts.caseId) await t.serialize();
     const rows = await joinedStatsRows(t, { unitIds: [key.unitId], from: `${key.month}-01`, to: lastDay(key.month), ruleSetId: ruleSet.id, ruleSetVersion: ruleSet.version, statuses: ['signed'] });
     const packed = rows.map((r) => packStatsRow(r.row, r.startMs));
     const text = JSON.stringify(packed);
@@ -55,7 +69,7 @@ export async function rebuildStatsMonth(q: Sql, ruleSet: { id: string; version: 
       text,
     ]);
     return { cases: packed.length, digest, rows: packed };
-  });
+  }, opts.caseId ? { only: summaryLockKey(opts.caseId, ruleSet) } : undefined);
 }
 
 /** The months (YYYY-MM) from the month of `from` to the month of `to`. */
@@ -267,7 +281,7 @@ export async function rebuildMonthsOfCase(client: PrismaClient, caseId: string, 
   const sets = new Map<string, { id: string; version: number }>();
   for (const v of versions) sets.set(`${v.ruleSetId}@${v.ruleSetVersion}`, { id: v.ruleSetId, version: Number(v.ruleSetVersion) });
   for (const a of also) sets.set(`${a.id}@${a.version}`, a);
-  for (const rs of sets.values()) await rebuildStatsMonth(q, rs, { unitId: c.unitId, month: c.scheduledDate.slice(0, 7) }, now);
+  for (const rs of sets.values()) await rebuildStatsMonth(q, rs, { unitId: c.unitId, month: c.scheduledDate.slice(0, 7) }, now, { caseId });
   return sets.size;
 }
 

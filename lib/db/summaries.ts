@@ -7,7 +7,7 @@ import type { Sql } from './sql';
 import { analyzeCase, getBuiltInRuleSet } from '@/lib/rules';
 import { appendAudit } from './audit';
 import { writeTx } from './tx';
-import { rebuildAllStatsMonths } from './statsMonths';
+import { rebuildAllStatsMonths, summaryId, summaryLockKey } from './statsMonths';
 import type { RuleSet } from '@/lib/domain/ruleSet';
 import type { Analysis } from '@/lib/domain/episode';
 import type { CaseRecord } from '@/lib/domain/caseRecord';
@@ -51,7 +51,6 @@ export async function refreshSummary(client: PrismaClient, caseId: string, now: 
   return analysis;
 }
 
-const summaryId = (caseId: string, rs: RuleSet) => `${caseId}:${rs.id}:${rs.version}`;
 
 async function storeSummary(q: Sql, caseId: string, rs: RuleSet, a: Analysis, hash: string, now: Date) {
   const s = a.summary;
@@ -70,10 +69,12 @@ async function storeSummary(q: Sql, caseId: string, rs: RuleSet, a: Analysis, ha
     ];
   });
   const firstApnea = a.episodes.find((e) => e.rule === 'apnea');
-  // An unsigned case's summary is its own business: only a second store of the same summary need
-  // wait (a bedside sheet stores them often). A signed case's touches the statistics rollups, so
-  // it waits for every writer, like a rollup rebuild does (lib/db/statsMonths.ts).
-  const status = await q.get<{ status: string }>('SELECT "status" FROM "Case" WHERE "id" = ?', [caseId]);
+  // A summary is stored under its own lock, so only another store of the same summary waits (a
+  // bedside sheet stores them often). When the case is signed, the summary also feeds the
+  // statistics rollups: then the store joins every writer (serialize) before it drops its month's
+  // rollup, and a rollup rebuild takes this same lock first (rebuildStatsMonth), so a rebuild
+  // never packs a summary that a store is about to replace. One order, this lock then the write
+  // lock, on both sides: no deadlock.
   await q.tx(async (t) => {
     await t.run('DELETE FROM "CaseSummaryRule" WHERE "summaryId" = ?', [id]);
     await t.run('DELETE FROM "CaseSummary" WHERE "id" = ?', [id]);
@@ -104,8 +105,11 @@ async function storeSummary(q: Sql, caseId: string, rs: RuleSet, a: Analysis, ha
     // A signed case's statistics row changed: drop its month's rollup for this version, which
     // the next statistics read (or the bulk operation that called this) rebuilds.
     const c = await t.get<{ status: string; unitId: string; scheduledDate: string }>('SELECT "status", "unitId", "scheduledDate" FROM "Case" WHERE "id" = ?', [caseId]);
-    if (c?.status === 'signed') await t.run('DELETE FROM "StatsMonth" WHERE "ruleSetId" = ? AND "ruleSetVersion" = ? AND "unitId" = ? AND "month" = ?', [rs.id, rs.version, c.unitId, c.scheduledDate.slice(0, 7)]);
-  }, status?.status === 'signed' ? undefined : { only: `summary:${id}` });
+    if (c?.status === 'signed') {
+      await t.serialize();
+      await t.run('DELETE FROM "StatsMonth" WHERE "ruleSetId" = ? AND "ruleSetVersion" = ? AND "unitId" = ? AND "month" = ?', [rs.id, rs.version, c.unitId, c.scheduledDate.slice(0, 7)]);
+    }
+  }, { only: summaryLockKey(caseId, rs) });
 }
 
 /** Recomputes every case's summary for its unit's active rule set; returns how many. */

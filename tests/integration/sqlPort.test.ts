@@ -15,6 +15,7 @@ import { asBool, asDate, isUniqueViolation, type Sql } from '@/lib/db/sql';
 import { recordEntry } from '@/lib/db/entries';
 import { signNote } from '@/lib/db/notes';
 import { ConflictError } from '@/lib/db/cases';
+import { lastSampleId, samplesAfter } from '@/lib/server/liveBus';
 
 let d: TestDatabase;
 let client: Db;
@@ -57,6 +58,20 @@ describe(`the Sql port on ${process.env.PLATEAU_TEST_DIALECT ?? 'sqlite'}`, () =
     expect(await q.insertMany('Sample', ['caseId', 'channel', 'atMs', 'value', 'source', 'probeOff'], again, { ignoreConflicts: true })).toBe(1);
     const n = await q.get<{ n: number; off: number }>(`SELECT COUNT(*) AS "n", SUM(CASE WHEN "probeOff" = TRUE THEN 1 ELSE 0 END) AS "off" FROM "Sample" WHERE "caseId" = ?`, ['case-1']);
     expect(n).toEqual({ n: 2501, off: 25 });
+  });
+
+  // A year of a large system's 1 Hz traces is over a billion samples: keys must not stop at 2^31
+  // (PostgreSQL's integer; SQLite's integer key is 64-bit by nature).
+  it('numbers samples past 2^31 and streams them back by key in order', async () => {
+    const past = 2 ** 31 + 1000;
+    if (q.dialect === 'postgresql') await q.get(`SELECT setval('"Sample_id_seq"', ?)`, [past]);
+    else await q.tx((t) => t.run('INSERT INTO "Sample" ("id", "caseId", "channel", "atMs", "value", "source") VALUES (?, ?, ?, ?, ?, ?)', [past, 'case-1', 'rr', 1_772_442_000_000, 12, 'monitor']));
+    const rows = Array.from({ length: 5 }, (_, i) => ['case-1', 'spo2', 1_772_442_000_000 + i * 1000, 95 + i, 'monitor', false]);
+    expect(await q.insertMany('Sample', ['caseId', 'channel', 'atMs', 'value', 'source', 'probeOff'], rows)).toBe(5);
+    const streamed = await samplesAfter(q, 'case-1', past);
+    expect(streamed.map((r) => r.value)).toEqual([95, 96, 97, 98, 99]);
+    expect(streamed.every((r) => Number.isSafeInteger(r.id) && r.id > past)).toBe(true);
+    expect(await lastSampleId(q, 'case-1')).toBe(streamed[4].id);
   });
 
   it('rolls a write transaction back whole when it throws', async () => {

@@ -9,8 +9,8 @@ import { dropDatabase, makeDatabase, type TestDatabase } from '../helpers/appSer
 import { closeDb, openDb, sqlOf, type Db } from '@/lib/db/client';
 import { joinedStatsRows, loadStatsRows, type StatsQuery } from '@/lib/db/statsRows';
 import { signNote } from '@/lib/db/notes';
-import { setActiveRuleSet } from '@/lib/db/summaries';
-import { forgetUnpackedMonths } from '@/lib/db/statsMonths';
+import { activeRuleSet, refreshSummary, setActiveRuleSet } from '@/lib/db/summaries';
+import { forgetUnpackedMonths, summaryId, summaryLockKey } from '@/lib/db/statsMonths';
 
 let d: TestDatabase;
 let client: Db;
@@ -61,6 +61,45 @@ describe('statistics from the monthly rollups', () => {
     expect(after.length).toBe(before.length + 1);
     expect(after.find((r) => r.caseId === open!.id)?.status).toBe('signed');
     expect(sortById(after)).toEqual(sortById((await joinedStatsRows(sqlOf(client), ALL({ statuses: ['signed'] }))).map((x) => x.row)));
+  });
+
+  it('packs the summary a store leaves when the case is signed while that store is under way', async () => {
+    const q = sqlOf(client);
+    const open = await client.case.findFirst({ where: { status: { not: 'signed' } }, orderBy: { startAt: 'desc' } });
+    expect(open, 'the demo has another unsigned case').not.toBeNull();
+    const rs = await activeRuleSet(client, open!.unitId);
+    await refreshSummary(client, open!.id, new Date(), rs);
+    const stored = await q.get<{ lowestSpo2: number | null }>('SELECT "lowestSpo2" FROM "CaseSummary" WHERE "id" = ?', [summaryId(open!.id, rs)]);
+    const replaced = (stored!.lowestSpo2 ?? 90) - 7;
+    // A summary store of the unsigned case, held open under its own lock (as lib/db/summaries
+    // stores one), while the nurse signs: the rebuild after signing must wait for it and pack
+    // what it leaves. (On SQLite the held transaction is the one writer: signing cannot commit
+    // until it ends, so the race cannot happen, and it is held no longer than signing may wait.)
+    let locked!: () => void;
+    let release!: () => void;
+    const isLocked = new Promise<void>((r) => (locked = r));
+    const released = new Promise<void>((r) => (release = r));
+    const store = q.tx(async (t) => {
+      locked();
+      await released;
+      await t.run('UPDATE "CaseSummary" SET "lowestSpo2" = ? WHERE "id" = ?', [replaced, summaryId(open!.id, rs)]);
+    }, { only: summaryLockKey(open!.id, rs) });
+    await isLocked;
+    const nurse = await client.user.findFirstOrThrow({ where: { role: 'nurse' } });
+    const signing = signNote(client, open!.id, null, { id: nurse.id, role: 'nurse', origin: 'test' }, new Date());
+    for (let i = 0; i < (q.dialect === 'postgresql' ? 100 : 16); i++) {
+      const c = await q.get<{ status: string }>('SELECT "status" FROM "Case" WHERE "id" = ?', [open!.id]);
+      if (c?.status === 'signed') break;
+      await new Promise((r) => setTimeout(r, 50));
+    }
+    await new Promise((r) => setTimeout(r, 200));
+    release();
+    await store;
+    await signing;
+    forgetUnpackedMonths(q);
+    const row = (await loadStatsRows(client, ALL({ ruleSetId: rs.id, ruleSetVersion: rs.version }))).find((r) => r.caseId === open!.id);
+    expect(row?.status).toBe('signed');
+    expect(row?.summary?.lowestSpo2).toBe(replaced);
   });
 
   it('rebuilds a rollup that was deleted or whose case count is behind', async () => {
