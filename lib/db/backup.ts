@@ -13,7 +13,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import Database from 'better-sqlite3';
 import { openRawDatabase } from './sqlite';
-import type { DbTarget } from './target';
+import { asTarget, type DbTarget } from './target';
 
 /** SHA-256 of a file, hex. */
 export function fileSha256(file: string): string {
@@ -41,7 +41,7 @@ function verifyChecksum(backupFile: string): void {
 /** A consistent online backup of the database into `dir`; returns the file and its SHA-256. */
 export function backupDatabase(target: DbTarget | string, dir: string, now: Date): { file: string; sha256: string } {
   fs.mkdirSync(dir, { recursive: true });
-  const t: DbTarget = typeof target === 'string' ? { dialect: 'sqlite', file: target } : target;
+  const t = asTarget(target);
   if (t.dialect === 'postgresql') {
     const file = path.join(dir, `plateau-${stampOf(now)}.dump`);
     pgTool('pg_dump', ['--format=custom', '--no-owner', '--file', file, '--dbname', t.url]);
@@ -63,7 +63,7 @@ export function backupDatabase(target: DbTarget | string, dir: string, now: Date
  * the backup's folder (`plateau-before-restore-<stamp>.dump`). Stop the app first.
  */
 export function restoreDatabase(backupFile: string, target: DbTarget | string, now: Date): { previous: string | null } {
-  const t: DbTarget = typeof target === 'string' ? { dialect: 'sqlite', file: target } : target;
+  const t = asTarget(target);
   verifyChecksum(backupFile);
   if (t.dialect === 'postgresql') {
     const list = pgTool('pg_restore', ['--list', backupFile], { check: false });

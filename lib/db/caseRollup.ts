@@ -3,7 +3,7 @@
  * drug names and intervention kinds of its non-voided entries, and the longest stretch of
  * sedation without a manual BP or HR reading (lib/db/statsRows builds the rows from them).
  */
-import { asDate, type Sql } from './sql';
+import { asDate, chunkRows, placeholders, type Sql } from './sql';
 
 /** Separates the items of a packed list (never part of a drug name, a kind or a number). */
 export const SEP = '\u001f';
@@ -20,10 +20,6 @@ export interface CaseRollup {
 
 const CHUNK = 500;
 
-function inList(n: number): string {
-  return Array.from({ length: n }, () => '?').join(', ');
-}
-
 /**
  * Computes the rollups of cases from their entries, four set-based queries per 500 cases.
  * Sedation runs from the earliest `sedation_start` to the earliest `sedation_end` (else
@@ -32,9 +28,8 @@ function inList(n: number): string {
 export async function computeRollups(q: Sql, caseIds: readonly string[]): Promise<Map<string, CaseRollup>> {
   const out = new Map<string, CaseRollup>();
   for (const id of caseIds) out.set(id, { caseId: id, drugs: [], interventions: [], longestVitalsGapS: null });
-  for (let i = 0; i < caseIds.length; i += CHUNK) {
-    const ids = caseIds.slice(i, i + CHUNK);
-    const list = inList(ids.length);
+  for (const ids of chunkRows(caseIds, 1, CHUNK)) {
+    const list = placeholders(ids.length);
     const [doses, ivs, events, vitals] = await Promise.all([
       q.all<{ caseId: string; drug: string }>(`SELECT "caseId", "drug" FROM "Dose" WHERE "caseId" IN (${list}) AND "voidedAt" IS NULL ORDER BY "caseId", "at", "id"`, ids),
       q.all<{ caseId: string; kind: string }>(`SELECT "caseId", "kind" FROM "Intervention" WHERE "caseId" IN (${list}) AND "voidedAt" IS NULL ORDER BY "caseId", "at", "id"`, ids),

@@ -4,8 +4,7 @@
  * time order. Plain SQL through the Sql port: the live sheet asks for this on every poll, and
  * the ORM's cost per statement was most of a poll's time (docs/trust.md, load).
  */
-import type { Sql } from './sql';
-import { asBool, asDate, asDateOrNull } from './sql';
+import { asBool, asBoolOrNull, asDate, asDateOrNull, type Sql } from './sql';
 
 export interface CaseRow {
   id: string;
@@ -67,8 +66,6 @@ export interface CaseRows {
   bloodGases: BloodGasRow[];
 }
 
-const yesNo = (v: unknown): boolean | null => (v === null || v === undefined ? null : asBool(v));
-
 function entries<T extends EntryRowBase>(rows: Record<string, unknown>[]): T[] {
   return rows.map((r) => ({ ...r, at: asDate(r.at), createdAt: asDate(r.createdAt), voidedAt: asDateOrNull(r.voidedAt) }) as unknown as T);
 }
@@ -119,11 +116,11 @@ export async function loadCaseRows(q: Sql, caseId: string): Promise<CaseRows | n
       allergies: str(c.allergies),
       baselineSpo2: num(c.baselineSpo2),
       oxygenDelivery: str(c.oxygenDelivery),
-      sbSnoring: yesNo(c.sbSnoring),
-      sbTired: yesNo(c.sbTired),
-      sbObserved: yesNo(c.sbObserved),
-      sbPressure: yesNo(c.sbPressure),
-      sbNeck: yesNo(c.sbNeck),
+      sbSnoring: asBoolOrNull(c.sbSnoring),
+      sbTired: asBoolOrNull(c.sbTired),
+      sbObserved: asBoolOrNull(c.sbObserved),
+      sbPressure: asBoolOrNull(c.sbPressure),
+      sbNeck: asBoolOrNull(c.sbNeck),
       patient: { mrn: String(c.mrn), familyName: String(c.familyName), givenName: String(c.givenName), birthDate: String(c.birthDate), sex: String(c.sex) },
       room: str(c.roomName),
       unit: { name: String(c.unitName), timeZone: String(c.timeZone), vitalsReminderMin: Number(c.vitalsReminderMin) },

@@ -129,7 +129,7 @@ export async function loadCaseSheet(client: PrismaClient, caseId: string, afterS
       patient: { mrn: c.patient.mrn, familyName: c.patient.familyName, givenName: c.patient.givenName, birthDate: c.patient.birthDate, sex: c.patient.sex },
       unit: c.unit,
     },
-    drugs: drugs.map((d) => ({ id: d.id, name: d.name, drugClass: d.drugClass, defaultUnit: d.defaultUnit, defaultRoute: d.defaultRoute, usualDose: d.usualDose, cautionAbove: d.cautionAbove, concentration: d.concentration })),
+    drugs,
     doses: rows.doses.map((d) => ({ ...base(d), drugId: d.drugId, drug: d.drug, amount: d.amount, unit: d.unit, route: d.route })),
     interventions: rows.interventions.map((i) => ({ ...base(i), kind: i.kind, note: i.note })),
     events: rows.events.map((e) => ({ ...base(e), kind: e.kind, note: e.note })),

@@ -7,7 +7,7 @@ import { MMHG_PER_KPA } from '@/lib/domain/channel';
 import { ConflictError, NotFoundError } from './cases';
 import { writeTx } from './tx';
 import { sqlOf } from './client';
-import { asDate, ident, isUniqueViolation, type Sql, type SqlValue } from './sql';
+import { asDate, ident, isUniqueViolation, placeholders, type Sql, type SqlValue } from './sql';
 
 export interface Actor {
   id: string;
@@ -27,6 +27,8 @@ const STATUS_AFTER_EVENT: Record<string, { from: string[]; to: string }> = {
   recovery_start: { from: ['draft', 'in_progress'], to: 'recovery' },
 };
 
+const signedConflict = () => new ConflictError('case: the note is signed; amend the note instead of changing entries');
+
 /** The table of each kind of bedside entry. */
 const TABLE: Record<EntryTarget, string> = { dose: 'Dose', intervention: 'Intervention', event: 'CaseEvent', vital: 'ManualVital', recovery: 'RecoveryScore', blood_gas: 'BloodGas' };
 
@@ -37,7 +39,7 @@ const byId = (t: Sql, target: EntryTarget, id: string) => t.get<Row>(`SELECT * F
 /** Inserts one row: `values` maps column names to values. */
 function insert(t: Sql, table: string, values: Record<string, SqlValue>): Promise<number> {
   const cols = Object.keys(values);
-  return t.run(`INSERT INTO ${ident(table)} (${cols.map(ident).join(', ')}) VALUES (${cols.map(() => '?').join(', ')})`, cols.map((c) => values[c]));
+  return t.run(`INSERT INTO ${ident(table)} (${cols.map(ident).join(', ')}) VALUES (${placeholders(cols.length)})`, cols.map((c) => values[c]));
 }
 
 /**
@@ -69,11 +71,11 @@ async function storeEntry(client: PrismaClient, caseId: string, e: EntryInput, a
       // while this entry waited, and a signed case takes no more entries.
       await t.serialize();
       const now2 = await t.get<{ status: string }>('SELECT "status" FROM "Case" WHERE "id" = ?', [caseId]);
-      if (now2?.status === 'signed') throw new ConflictError('case: the note is signed; amend the note instead of changing entries');
+      if (now2?.status === 'signed') throw signedConflict();
       await appendAuditSql(t, { at: now, actorId: actor.id, role: actor.role, action, entity, entityId, caseId, before, after, origin: actor.origin });
     };
     const guardSigned = () => {
-      if (c.status === 'signed') throw new ConflictError('case: the note is signed; amend the note instead of changing entries');
+      if (c.status === 'signed') throw signedConflict();
     };
     const created = { createdAt: now, createdById: actor.id };
 

@@ -22,7 +22,7 @@
  */
 import { createHash, randomUUID } from 'node:crypto';
 import { appendAuditSql } from './auditSql';
-import { asDate, chunkRows, type Sql, type SqlValue } from './sql';
+import { asDate, chunkRows, placeholders, type Sql, type SqlValue } from './sql';
 import type { Hl7Message } from '@/lib/ingest/hl7';
 
 export type Hl7Status = 'accepted' | 'unmatched' | 'duplicate';
@@ -71,7 +71,6 @@ function eqOrNull(column: string, v: string | null): { text: string; params: Sql
 const SAMPLE_COLUMNS = ['caseId', 'channel', 'atMs', 'value', 'source', 'probeOff'] as const;
 // Lists of ids bound into one `IN (…)`: well under both drivers' parameter limits.
 const IN_CHUNK = 1000;
-const placeholders = (n: number) => Array.from({ length: n }, () => '?').join(', ');
 
 /** Authentication, routing and storage of HL7 messages over one Sql port; create once per process. */
 export class Hl7Store {

@@ -15,6 +15,7 @@ import pg from 'pg';
 import { PrismaPg } from '@prisma/adapter-pg';
 import type { SqlMigrationAwareDriverAdapterFactory } from '@prisma/driver-adapter-utils';
 import { Mutex, chunkRows, ident, numberedPlaceholders, type Sql, type SqlValue, type TxOptions } from './sql';
+import { positiveEnv } from '@/lib/_shared/positiveEnv';
 
 /** The advisory lock key every Plateau write transaction takes (an arbitrary constant: "PLAT"). */
 export const WRITE_LOCK_KEY = 0x504c4154;
@@ -106,8 +107,11 @@ async function insertManyOn(on: Queryable, table: string, columns: readonly stri
   return n;
 }
 
+/** Connections per app process for reads (PLATEAU_PG_POOL, default 10); writes get half as many more. */
+const poolSize = () => positiveEnv(process.env.PLATEAU_PG_POOL, 10, true);
+
 /** A connection pool for a database URL (`max` connections; default PLATEAU_PG_POOL, else 10). */
-export function newPgPool(url: string, max: number = Number(process.env.PLATEAU_PG_POOL ?? 10) || 10): pg.Pool {
+export function newPgPool(url: string, max: number = poolSize()): pg.Pool {
   const pool = new pg.Pool({ connectionString: url, max });
   // An idle client's error (server restart) must not crash the app; the next query reconnects.
   pool.on('error', () => undefined);
@@ -191,7 +195,7 @@ export class PgSql implements Sql {
     readonly url: string,
     readonly pool: pg.Pool = newPgPool(url),
   ) {
-    this.writes = newPgPool(url, Math.max(2, Math.ceil((Number(process.env.PLATEAU_PG_POOL ?? 10) || 10) / 2)));
+    this.writes = newPgPool(url, Math.max(2, Math.ceil(poolSize() / 2)));
   }
 
   async all<T>(text: string, params?: readonly SqlValue[]): Promise<T[]> {

@@ -58,6 +58,11 @@ export function asBool(v: unknown): boolean {
   return v === true || v === 1 || v === 1n || v === '1' || v === 't';
 }
 
+/** A nullable boolean column (a yes/no answer not yet given is null). */
+export function asBoolOrNull(v: unknown): boolean | null {
+  return v === null || v === undefined ? null : asBool(v);
+}
+
 /** A DateTime column as read from either database (SQLite gives ISO text). */
 export function asDate(v: unknown): Date {
   return v instanceof Date ? v : new Date(String(v));
@@ -104,6 +109,16 @@ export function chunkRows<T>(rows: readonly T[], columns: number, maxParams: num
   const out: T[][] = [];
   for (let i = 0; i < rows.length; i += per) out.push(rows.slice(i, i + per));
   return out;
+}
+
+/**
+ * `n` parameter markers for an `IN (…)` list or a VALUES row.
+ *
+ * @example
+ * placeholders(3) //=> '?, ?, ?'
+ */
+export function placeholders(n: number): string {
+  return Array.from({ length: n }, () => '?').join(', ');
 }
 
 /** `"name"` — a quoted SQL identifier. */

@@ -8,7 +8,7 @@ import path from 'node:path';
 import Database from 'better-sqlite3';
 import { PrismaBetterSqlite3 } from '@prisma/adapter-better-sqlite3';
 import type { SqlDriverAdapter, SqlMigrationAwareDriverAdapterFactory } from '@prisma/driver-adapter-utils';
-import { Mutex, ident, type Sql, type SqlValue, type TxOptions } from './sql';
+import { Mutex, ident, placeholders, type Sql, type SqlValue, type TxOptions } from './sql';
 
 export const BUSY_TIMEOUT_MS = 10_000;
 // journal_mode is persistent in the file and needs the database to itself, so it is set once
@@ -121,7 +121,7 @@ class Statements {
 function insertManyOn(st: Statements, table: string, columns: readonly string[], rows: readonly (readonly SqlValue[])[], ignoreConflicts: boolean): number {
   if (rows.length === 0) return 0;
   const cols = columns.map(ident).join(', ');
-  const one = `(${columns.map(() => '?').join(', ')})`;
+  const one = `(${placeholders(columns.length)})`;
   const tail = ignoreConflicts ? ' ON CONFLICT DO NOTHING' : '';
   let n = 0;
   // One prepared single-row statement reused is the fastest way into SQLite (no SQL parsing per

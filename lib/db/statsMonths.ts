@@ -25,8 +25,8 @@
 import { createHash } from 'node:crypto';
 import type { PrismaClient } from './generated/client';
 import { sqlOf } from './client';
-import type { Sql, SqlValue } from './sql';
-import { joinedStatsRows, statsNames, summaryRuleIds, type StatsQuery } from './statsRows';
+import type { Sql } from './sql';
+import { joinedStatsRows, statsNames, summaryRuleIds, unitFilter, type StatsQuery } from './statsRows';
 import { STATS_ROW_FORMAT, packStatsRow, unpackStatsRow, type PackedStatsRow } from '@/lib/domain/statsRowCodec';
 import type { StatsRow } from '@/lib/domain/statsRow';
 
@@ -85,12 +85,6 @@ function monthsBetween(from: string, to: string): string[] {
     }
   }
   return out;
-}
-
-function unitFilter(unitIds: readonly string[] | undefined, column: string): { sql: string; args: SqlValue[] } {
-  if (!unitIds) return { sql: '', args: [] };
-  if (unitIds.length === 0) return { sql: ' AND 1 = 0', args: [] };
-  return { sql: ` AND ${column} IN (${unitIds.map(() => '?').join(', ')})`, args: [...unitIds] };
 }
 
 interface Unpacked {
@@ -182,8 +176,9 @@ export async function loadFromMonths(q: Sql, query: StatsQuery): Promise<StatsRo
   const context = createHash('sha1')
     .update(JSON.stringify([ruleIds, [...names.room], [...names.proceduralist], [...names.user]]))
     .digest('hex');
-  const metaByKey = new Map(meta.map((m) => [`${m.unitId}|${m.month}`, m]));
-  const cacheKey = (k: Key) => `${query.ruleSetId}@${query.ruleSetVersion}|${k.unitId}|${k.month}`;
+  const monthKey = (k: Key) => `${k.unitId}|${k.month}`;
+  const metaByKey = new Map(meta.map((m) => [monthKey(m), m]));
+  const cacheKey = (k: Key) => `${query.ruleSetId}@${query.ruleSetVersion}|${monthKey(k)}`;
   const unpackAll = (unitId: string, packed: PackedStatsRow[]) => {
     const ctx = { unitId, status: 'signed', ruleSetId: query.ruleSetId, ruleSetVersion: query.ruleSetVersion, ruleIds, names };
     return packed.map((r) => ({ row: unpackStatsRow(r, ctx), startMs: r[3] }));
@@ -191,26 +186,29 @@ export async function loadFromMonths(q: Sql, query: StatsQuery): Promise<StatsRo
 
   const cache = cacheOf(q);
   const parts = new Map<string, Unpacked['rows']>();
+  const keep = (k: Key, digest: string, rows: Unpacked['rows']) => {
+    parts.set(monthKey(k), rows);
+    remember(cache, cacheKey(k), { stamp: digest, context, rows });
+  };
+  const now = new Date();
+  const rebuild = async (k: Key) => {
+    const r = await rebuildStatsMonth(q, { id: query.ruleSetId, version: query.ruleSetVersion }, k, now);
+    keep(k, r.digest, unpackAll(k.unitId, r.rows));
+  };
   const toFetch: Key[] = [];
   const toRebuild: Key[] = [];
   for (const l of live) {
-    const m = metaByKey.get(`${l.unitId}|${l.month}`);
+    const m = metaByKey.get(monthKey(l));
     if (!m || Number(m.cases) !== Number(l.n) || Number(m.format) !== STATS_ROW_FORMAT) toRebuild.push(l);
     else {
       const hit = recall(cache, cacheKey(l), m.digest, context);
-      if (hit) parts.set(`${l.unitId}|${l.month}`, hit.rows);
+      if (hit) parts.set(monthKey(l), hit.rows);
       else toFetch.push(l);
     }
   }
-  const now = new Date();
-  for (const k of toRebuild) {
-    const r = await rebuildStatsMonth(q, { id: query.ruleSetId, version: query.ruleSetVersion }, k, now);
-    const rows = unpackAll(k.unitId, r.rows);
-    parts.set(`${k.unitId}|${k.month}`, rows);
-    remember(cache, cacheKey(k), { stamp: r.digest, context, rows });
-  }
+  for (const k of toRebuild) await rebuild(k);
   if (toFetch.length) {
-    const wanted = new Set(toFetch.map((k) => `${k.unitId}|${k.month}`));
+    const wanted = new Set(toFetch.map(monthKey));
     // A few: one by one; many (a cold start): the whole range at once.
     const fetched =
       toFetch.length <= 8
@@ -229,25 +227,15 @@ export async function loadFromMonths(q: Sql, query: StatsQuery): Promise<StatsRo
              WHERE "ruleSetId" = ? AND "ruleSetVersion" = ? AND "month" >= ? AND "month" <= ?${cu.sql}`,
             [query.ruleSetId, query.ruleSetVersion, first, last, ...cu.args],
           );
-    for (const f of fetched) {
-      const k = `${f.unitId}|${f.month}`;
-      if (!wanted.has(k)) continue;
-      const rows = unpackAll(f.unitId, JSON.parse(f.rows) as PackedStatsRow[]);
-      parts.set(k, rows);
-      remember(cache, cacheKey(f), { stamp: f.digest, context, rows });
-    }
+    for (const f of fetched) if (wanted.has(monthKey(f))) keep(f, f.digest, unpackAll(f.unitId, JSON.parse(f.rows) as PackedStatsRow[]));
     // Rebuilt between the two reads, or gone: pack it now.
-    for (const k of toFetch) {
-      if (parts.has(`${k.unitId}|${k.month}`)) continue;
-      const r = await rebuildStatsMonth(q, { id: query.ruleSetId, version: query.ruleSetVersion }, k, now);
-      parts.set(`${k.unitId}|${k.month}`, unpackAll(k.unitId, r.rows));
-    }
+    for (const k of toFetch) if (!parts.has(monthKey(k))) await rebuild(k);
   }
 
   // Month by month (each rollup is already in order): one month's units merged, then the next.
   const byMonth = new Map<string, Unpacked['rows'][]>();
   for (const l of [...live].sort((a, b) => (a.month < b.month ? -1 : a.month > b.month ? 1 : a.unitId < b.unitId ? -1 : 1))) {
-    const rows = parts.get(`${l.unitId}|${l.month}`);
+    const rows = parts.get(monthKey(l));
     if (!rows) continue;
     const list = byMonth.get(l.month) ?? [];
     list.push(rows);

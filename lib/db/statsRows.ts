@@ -9,7 +9,7 @@
  */
 import type { PrismaClient } from './generated/client';
 import { sqlOf } from './client';
-import { asBool, asDate, type Sql, type SqlValue } from './sql';
+import { asBool, asBoolOrNull, asDate, chunkRows, placeholders, type Sql, type SqlValue } from './sql';
 import { SEP, computeRollups } from './caseRollup';
 import { loadFromMonths } from './statsMonths';
 import type { StatsRow } from '@/lib/domain/statsRow';
@@ -69,23 +69,18 @@ type RuleFacts = { episodes: number; totalDurationS: number; maxDurationS: numbe
 /** The entry of a rule without episodes, shared (frozen) by every row: most rules of most cases have none. */
 const NO_EPISODES: RuleFacts = Object.freeze({ episodes: 0, totalDurationS: 0, maxDurationS: 0, firstResponseS: null });
 
+/** ` AND <column> IN (…)` for a unit filter: nothing without one, no rows for an empty one. */
+export function unitFilter(unitIds: readonly string[] | undefined, column: string): { sql: string; args: SqlValue[] } {
+  if (!unitIds) return { sql: '', args: [] };
+  if (unitIds.length === 0) return { sql: ' AND 1 = 0', args: [] };
+  return { sql: ` AND ${column} IN (${placeholders(unitIds.length)})`, args: [...unitIds] };
+}
+
 function caseFilter(q: StatsQuery): { sql: string; args: SqlValue[] } {
   const statuses = q.statuses ?? ['signed'];
-  const parts = ['c."scheduledDate" >= ?', 'c."scheduledDate" <= ?'];
-  const args: SqlValue[] = [q.from, q.to];
-  if (statuses.length === 0) parts.push('1 = 0');
-  else {
-    parts.push(`c."status" IN (${statuses.map(() => '?').join(', ')})`);
-    args.push(...statuses);
-  }
-  if (q.unitIds) {
-    if (q.unitIds.length === 0) parts.push('1 = 0');
-    else {
-      parts.push(`c."unitId" IN (${q.unitIds.map(() => '?').join(', ')})`);
-      args.push(...q.unitIds);
-    }
-  }
-  return { sql: parts.join(' AND '), args };
+  const status = statuses.length === 0 ? ' AND 1 = 0' : ` AND c."status" IN (${placeholders(statuses.length)})`;
+  const units = unitFilter(q.unitIds, 'c."unitId"');
+  return { sql: `c."scheduledDate" >= ? AND c."scheduledDate" <= ?${status}${units.sql}`, args: [q.from, q.to, ...statuses, ...units.args] };
 }
 
 const CASES_SQL = (where: string) => `SELECT c."id", c."key", c."unitId", c."scheduledDate", c."status", c."startAt", c."roomId", c."procedureType", c."plannedDepth",
@@ -120,11 +115,10 @@ export async function statsNames(q: Sql): Promise<{ room: Map<string, string>; p
 /** The rules with episodes of each summary, from its CaseSummaryRule rows. */
 async function rulesWithEpisodes(q: Sql, summaryIds: string[]): Promise<Map<string, [string, RuleFacts][]>> {
   const out = new Map<string, [string, RuleFacts][]>();
-  for (let i = 0; i < summaryIds.length; i += 500) {
-    const ids = summaryIds.slice(i, i + 500);
+  for (const ids of chunkRows(summaryIds, 1, 500)) {
     const rows = await q.all<{ summaryId: string; ruleId: string; episodes: number; totalDurationS: number; maxDurationS: number; firstResponseS: number | null }>(
       `SELECT "summaryId", "ruleId", "episodes", "totalDurationS", "maxDurationS", "firstResponseS" FROM "CaseSummaryRule"
-       WHERE "summaryId" IN (${ids.map(() => '?').join(', ')}) AND ("episodes" <> 0 OR "totalDurationS" <> 0 OR "maxDurationS" <> 0 OR "firstResponseS" IS NOT NULL)
+       WHERE "summaryId" IN (${placeholders(ids.length)}) AND ("episodes" <> 0 OR "totalDurationS" <> 0 OR "maxDurationS" <> 0 OR "firstResponseS" IS NOT NULL)
        ORDER BY "summaryId", "id"`,
       ids,
     );
@@ -148,8 +142,6 @@ function regimenOfList(drugs: readonly string[]): StatsRow['regimen'] {
   }
   return r;
 }
-
-const yesNo = (v: unknown): boolean | null => (v === null || v === undefined ? null : asBool(v));
 
 /**
  * Statistics rows straight from the case tables, with each row's case start (epoch ms):
@@ -177,7 +169,7 @@ export async function joinedStatsRows(q: Sql, query: StatsQuery): Promise<{ row:
     const answered = c.sbSnoring !== null && c.sbTired !== null && c.sbObserved !== null && c.sbPressure !== null;
     const sb = answered
       ? stopBangFromFacts({
-          answers: { snoring: asBool(c.sbSnoring), tired: asBool(c.sbTired), observedApnea: asBool(c.sbObserved), pressure: asBool(c.sbPressure), neckOver40: yesNo(c.sbNeck) },
+          answers: { snoring: asBool(c.sbSnoring), tired: asBool(c.sbTired), observedApnea: asBool(c.sbObserved), pressure: asBool(c.sbPressure), neckOver40: asBoolOrNull(c.sbNeck) },
           bmi: b,
           age,
           sex: c.sex as 'female' | 'male',

@@ -456,6 +456,7 @@ export function buildIndicatorSeries(input: { catalogue: Catalogue; periods: rea
   checkMinCell(minCell);
   const kind = input.periods[0]?.kind ?? 'month';
   const byPeriod = groupByPeriod(input.rows, kind, new Set(input.scope.unitIds));
+  const raws = new Map(input.periods.map((p) => [p.label, rawsOf(input.catalogue.indicators, byPeriod.get(p.label) ?? [])]));
   return {
     format: 'plateau-indicator-series/1',
     catalogueVersion: input.catalogue.version,
@@ -465,14 +466,11 @@ export function buildIndicatorSeries(input: { catalogue: Catalogue; periods: rea
     minCell,
     confidence,
     generatedOn: input.generatedOn,
-    indicators: (() => {
-      const raws = new Map(input.periods.map((p) => [p.label, rawsOf(input.catalogue.indicators, byPeriod.get(p.label) ?? [])]));
-      return input.catalogue.indicators.map((ind, k) => ({
-        id: ind.id,
-        definition: describeIndicator(ind, input.catalogue),
-        cells: input.periods.map((p) => cellOf(ind, p, raws.get(p.label)![k], minCell, confidence)),
-      }));
-    })(),
+    indicators: input.catalogue.indicators.map((ind, k) => ({
+      id: ind.id,
+      definition: describeIndicator(ind, input.catalogue),
+      cells: input.periods.map((p) => cellOf(ind, p, raws.get(p.label)![k], minCell, confidence)),
+    })),
   };
 }
 

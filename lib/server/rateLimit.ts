@@ -1,5 +1,5 @@
 import type { PrismaClient } from '@/lib/db/generated/client';
-import { positiveEnv } from './config';
+import { positiveEnv } from '@/lib/_shared/positiveEnv';
 
 /**
  * Sign-in rate limiting and temporary lockout, kept in the SignInAttempt table so every app
